@@ -1,0 +1,3 @@
+export default defineEventHandler((event) => {
+  return { user: requireUser(event) }
+})

@@ -1,0 +1,40 @@
+import { eq } from 'drizzle-orm'
+import { databaseReady } from '../plugins/database'
+import { users } from '../database/schema'
+
+// Refresh the idle timer at most this often, so the sealed cookie is not rewritten on every request.
+const SEEN_REFRESH_MS = 5 * 60 * 1000
+
+/**
+ * Loads the signed-in user for every request and checks the sealed cookie against the database:
+ * a raised session version (sign-out, password change, disabling), a disabled account, or an idle or
+ * absolute expiry ends the session at once.
+ */
+export default defineEventHandler(async (event) => {
+  await databaseReady()
+  const path = event.path
+  if (!path.startsWith('/api/') && !isPagePath(path)) return
+  const session = await getUserSession(event)
+  if (!session.user?.id) return
+  const rc = useRuntimeConfig()
+  const now = Date.now()
+  const idleMs = Number(rc.sessionIdleSeconds) * 1000
+  const absoluteMs = Number(rc.sessionAbsoluteSeconds) * 1000
+  const [row] = await useDb().select({
+    id: users.id, role: users.role, name: users.name, email: users.email, timeZone: users.timeZone,
+    disabledAt: users.disabledAt, sessionVersion: users.sessionVersion,
+  }).from(users).where(eq(users.id, session.user.id)).limit(1)
+  const expired = !session.issuedAt || now - session.issuedAt > absoluteMs || !session.seenAt || now - session.seenAt > idleMs
+  if (!row || row.disabledAt || row.sessionVersion !== session.sv || expired) {
+    await clearUserSession(event)
+    return
+  }
+  event.context.authUser = { id: row.id, role: row.role, name: row.name, email: row.email, timeZone: row.timeZone }
+  if (now - session.seenAt > SEEN_REFRESH_MS || row.role !== session.user.role || row.name !== session.user.name) {
+    await replaceUserSession(event, { ...session, user: event.context.authUser, seenAt: now })
+  }
+})
+
+function isPagePath(path: string) {
+  return !path.startsWith('/_nuxt/') && !path.startsWith('/__nuxt') && !/\.[a-z0-9]+(\?|$)/i.test(path)
+}

@@ -1,0 +1,78 @@
+import { and, asc, eq, lte, sql } from 'drizzle-orm'
+import { outbox } from '../database/schema'
+import type { EmailContent } from '../utils/mail'
+
+export interface QueuedEmail extends EmailContent { to: string, dedupeKey?: string }
+
+/**
+ * Writes an e-mail to the outbox inside the caller's transaction: it is sent only if the change commits,
+ * and it is never lost once committed. A dedupeKey makes it a once-only message.
+ */
+export async function queueEmail(tx: DbOrTx, mail: QueuedEmail) {
+  await tx.insert(outbox).values({
+    toAddress: mail.to,
+    subject: mail.subject,
+    textBody: mail.text,
+    htmlBody: mail.html,
+    dedupeKey: mail.dedupeKey ?? null,
+  }).onConflictDoNothing({ target: outbox.dedupeKey })
+  scheduleOutboxRun()
+}
+
+// Retry back-off: 5 s doubling to at most 15 min (common practice for mail queues).
+export function retryDelayMs(attempts: number) {
+  return Math.min(5000 * 2 ** Math.max(0, attempts - 1), 15 * 60 * 1000)
+}
+// While one instance sends a message, others leave it alone for this long.
+const LEASE_MS = 60_000
+
+let running: Promise<number> | null = null
+let timer: ReturnType<typeof setTimeout> | null = null
+
+export function scheduleOutboxRun(delayMs = 50) {
+  if (timer) return
+  timer = setTimeout(() => {
+    timer = null
+    void deliverDueEmails().catch(err => console.error('[outbox]', err))
+  }, delayMs)
+}
+
+/** Sends every due message once; failures stay queued with a later attempt time. Returns how many went out. */
+export function deliverDueEmails(limit = 25): Promise<number> {
+  running ??= (async () => {
+    try {
+      const db = useDb()
+      const now = Date.now()
+      const due = await db.select().from(outbox)
+        .where(and(eq(outbox.status, 'pending'), lte(outbox.nextAttemptAt, new Date(now))))
+        .orderBy(asc(outbox.nextAttemptAt)).limit(limit)
+      let sent = 0
+      const { from } = smtpSettings()
+      for (const row of due) {
+        // Claim the row: only the instance whose update matched sends it.
+        const claimed = await db.update(outbox).set({ nextAttemptAt: new Date(now + LEASE_MS) })
+          .where(and(eq(outbox.id, row.id), eq(outbox.status, 'pending'), lte(outbox.nextAttemptAt, new Date(now))))
+          .returning({ id: outbox.id })
+        if (!claimed.length) continue
+        try {
+          await useMailer().sendMail({ from, to: row.toAddress, subject: row.subject, text: row.textBody, html: row.htmlBody ?? undefined })
+          await db.update(outbox).set({ status: 'sent', sentAt: new Date(), attempts: sql`${outbox.attempts} + 1`, lastError: null }).where(eq(outbox.id, row.id))
+          sent++
+        }
+        catch (err) {
+          const attempts = row.attempts + 1
+          await db.update(outbox).set({
+            attempts,
+            lastError: String((err as Error)?.message ?? err).slice(0, 500),
+            nextAttemptAt: new Date(Date.now() + retryDelayMs(attempts)),
+          }).where(eq(outbox.id, row.id))
+        }
+      }
+      return sent
+    }
+    finally {
+      running = null
+    }
+  })()
+  return running
+}

@@ -1,0 +1,48 @@
+import type { Config } from 'tailwindcss'
+
+// Forescent's own identity: a deep pine green for trust, warm sand surfaces, an amber "heads-up" accent
+// and a clay red kept for problems. Type scale and spacing are tuned for phones first.
+export default {
+  content: [
+    './components/**/*.{vue,ts}',
+    './layouts/**/*.vue',
+    './pages/**/*.vue',
+    './app.vue',
+    './error.vue',
+    './shared/**/*.ts',
+  ],
+  theme: {
+    extend: {
+      colors: {
+        pine: {
+          50: '#eef6f4', 100: '#d5e9e4', 200: '#acd3c9', 300: '#7cb6a8', 400: '#4f9584',
+          500: '#347a6a', 600: '#276356', 700: '#1f4d45', 800: '#193d37', 900: '#122c28',
+        },
+        sand: {
+          50: '#fbf9f5', 100: '#f5f0e6', 200: '#ebe2d0', 300: '#dccdb0', 400: '#c4ae86',
+          500: '#a88f63', 600: '#86704b', 700: '#66553a', 800: '#453a29', 900: '#2a241a',
+        },
+        amber: { 100: '#fdf0d2', 300: '#f6cf72', 500: '#e0a21d', 700: '#95680b' },
+        clay: { 100: '#f9e1dc', 300: '#eba597', 500: '#c8553f', 700: '#8f3424' },
+        ink: { DEFAULT: '#1d2422', soft: '#4a5653', faint: '#7b8784' },
+      },
+      fontFamily: {
+        sans: ['"Inter Variable"', 'system-ui', 'sans-serif'],
+      },
+      fontSize: {
+        // A compact modular scale (ratio ~1.2) with readable line heights on small screens.
+        xs: ['0.78rem', { lineHeight: '1.1rem' }],
+        sm: ['0.875rem', { lineHeight: '1.3rem' }],
+        base: ['1rem', { lineHeight: '1.55rem' }],
+        lg: ['1.2rem', { lineHeight: '1.7rem' }],
+        xl: ['1.44rem', { lineHeight: '1.9rem' }],
+        '2xl': ['1.73rem', { lineHeight: '2.2rem' }],
+        '3xl': ['2.07rem', { lineHeight: '2.5rem' }],
+      },
+      spacing: { 4.5: '1.125rem', 13: '3.25rem', 18: '4.5rem' },
+      borderRadius: { card: '0.9rem' },
+      boxShadow: { card: '0 1px 2px rgba(18,44,40,.06), 0 4px 14px rgba(18,44,40,.06)' },
+    },
+  },
+  plugins: [],
+} satisfies Config
