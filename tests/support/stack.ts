@@ -1,0 +1,102 @@
+// Starts what the tests run against: a fresh SQLite file with the demo scenario, the fake SMTP service and the
+// built server (.output) as a real HTTP server on a free port.
+import { spawn, type ChildProcess } from 'node:child_process'
+import { mkdirSync, existsSync } from 'node:fs'
+import { createServer } from 'node:net'
+import { resolve } from 'node:path'
+import { randomBytes } from 'node:crypto'
+import { migrateDatabase, openDatabase, prepareDatabase } from '../../server/database/client'
+import { seedDemo } from '../../scripts/lib/seed-data'
+import { startFakeSmtp, type FakeSmtp } from '../../fake-services/smtp/server.mjs'
+
+export const ROOT = resolve(import.meta.dirname, '../..')
+export const TEST_SESSION_PASSWORD = 'test-session-password-which-is-long-enough-1234'
+
+export async function freePort(): Promise<number> {
+  return new Promise((ok, fail) => {
+    const srv = createServer()
+    srv.once('error', fail)
+    srv.listen(0, '127.0.0.1', () => {
+      const { port } = srv.address() as { port: number }
+      srv.close(() => ok(port))
+    })
+  })
+}
+
+export function tempDatabaseUrl(label: string): string {
+  const dir = resolve(ROOT, 'tests/.tmp')
+  mkdirSync(dir, { recursive: true })
+  return `file:${resolve(dir, `${label}-${Date.now()}-${randomBytes(3).toString('hex')}.db`)}`
+}
+
+/** Migrates and (re)seeds the database with the demo scenario. */
+export async function resetDatabase(url: string) {
+  const { client, db } = openDatabase(url)
+  await prepareDatabase(client, url)
+  await migrateDatabase(db)
+  await seedDemo(db)
+  client.close()
+}
+
+export interface Stack {
+  baseUrl: string
+  mailUrl: string
+  databaseUrl: string
+  smtpPort: number
+  smtp: FakeSmtp | null
+  stop: () => Promise<void>
+}
+
+export async function startStack(opts: { label?: string, env?: Record<string, string>, startSmtp?: boolean } = {}): Promise<Stack> {
+  const entry = resolve(ROOT, '.output/server/index.mjs')
+  if (!existsSync(entry)) throw new Error('No built server in .output: run `npm run build` (the test command does it for you).')
+  const databaseUrl = tempDatabaseUrl(opts.label ?? 'stack')
+  await resetDatabase(databaseUrl)
+  const smtpPort = await freePort()
+  const smtp = opts.startSmtp === false ? null : await startFakeSmtp({ smtpPort, httpPort: 0, quiet: true })
+  const port = await freePort()
+  const baseUrl = `http://127.0.0.1:${port}`
+  const child: ChildProcess = spawn(process.execPath, [entry], {
+    cwd: ROOT,
+    env: {
+      ...process.env,
+      NODE_ENV: 'production',
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      DATABASE_URL: databaseUrl,
+      NUXT_SESSION_PASSWORD: TEST_SESSION_PASSWORD,
+      SMTP_HOST: '127.0.0.1',
+      SMTP_PORT: String(smtpPort),
+      APP_URL: baseUrl,
+      OUTBOX_INTERVAL_MS: '250',
+      ...opts.env,
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  })
+  let output = ''
+  child.stdout?.on('data', (d) => { output += d })
+  child.stderr?.on('data', (d) => { output += d })
+  const deadline = Date.now() + 30_000
+  for (;;) {
+    if (child.exitCode !== null) throw new Error(`The server exited during start-up:\n${output}`)
+    try {
+      const res = await fetch(`${baseUrl}/api/auth/me`)
+      if (res.status === 401) break
+    }
+    catch { /* not listening yet */ }
+    if (Date.now() > deadline) throw new Error(`The server did not start within 30 s:\n${output}`)
+    await new Promise(r => setTimeout(r, 150))
+  }
+  return {
+    baseUrl,
+    mailUrl: smtp ? `http://127.0.0.1:${smtp.httpPort}` : '',
+    databaseUrl,
+    smtpPort,
+    smtp,
+    async stop() {
+      child.kill('SIGTERM')
+      await new Promise(r => (child.exitCode !== null ? r(null) : child.once('exit', r)))
+      await smtp?.close()
+    },
+  }
+}
