@@ -71,7 +71,8 @@ describe('fake SMTP service', () => {
     expect(all.status).toBe(200)
     expect(all.body).toHaveLength(2)
     // Newest first.
-    const [b, a] = all.body
+    const b = all.body[0]!
+    const a = all.body[1]!
     expect(b.to).toEqual([HANDLER_B])
     expect(b.subject).toBe('Invoice 2025-0042 is due')
     expect(b.text.trim()).toBe('Your programme fee invoice is due in 7 days.')
@@ -122,7 +123,7 @@ describe('fake SMTP service', () => {
     expect(html).toContain('&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; Sample bank low')
     expect(html).toContain(HANDLER_A.toLowerCase())
 
-    const [newest] = (await getJson<Message[]>('/api/messages')).body
+    const newest = (await getJson<Message[]>("/api/messages")).body[0]!
     const detail = await (await fetch(`${base}/messages/${newest.id}`)).text()
     expect(detail).not.toContain('<script>')
   })
@@ -136,7 +137,7 @@ describe('fake SMTP service', () => {
 
     const after = await getJson<Message[]>('/api/messages')
     expect(after.body).toEqual([])
-    const gone = await getJson<{ error: string }>(`/api/messages/${before.body[0].id}`)
+    const gone = await getJson<{ error: string }>(`/api/messages/${before.body[0]!.id}`)
     expect(gone.status).toBe(404)
   })
 })

@@ -1,0 +1,28 @@
+import { defineConfig, devices } from '@playwright/test'
+
+// End-to-end tests in Debian's Chromium (/usr/bin/chromium); Playwright's own browser downloads are not used.
+const chromium = process.env.CHROMIUM_PATH || '/usr/bin/chromium'
+
+export default defineConfig({
+  testDir: 'tests/e2e',
+  globalSetup: './tests/e2e/global-setup.ts',
+  fullyParallel: false,
+  workers: 1,
+  retries: process.env.CI ? 1 : 0,
+  timeout: 45_000,
+  expect: { timeout: 8_000 },
+  reporter: process.env.CI ? [['list']] : [['list']],
+  outputDir: 'test-results',
+  use: {
+    baseURL: process.env.E2E_BASE_URL,
+    trace: 'retain-on-failure',
+    screenshot: 'only-on-failure',
+    launchOptions: {
+      executablePath: chromium,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+    },
+  },
+  projects: [
+    { name: 'desktop', use: { ...devices['Desktop Chrome'], channel: undefined } },
+  ],
+})
