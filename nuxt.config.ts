@@ -5,6 +5,8 @@ import { resolve } from 'node:path'
 export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   devtools: { enabled: false },
+  // Separate build folders let several checkouts or helpers build side by side (default .nuxt and .output).
+  buildDir: process.env.NUXT_BUILD_DIR || '.nuxt',
   telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
   css: ['@fontsource-variable/inter/index.css', '~/assets/css/main.css'],
@@ -42,6 +44,7 @@ export default defineNuxtConfig({
     },
   },
   nitro: {
+    output: { dir: process.env.NUXT_OUTPUT_DIR || '.output' },
     imports: { dirs: ['server/services'] },
     experimental: { tasks: false },
     hooks: {

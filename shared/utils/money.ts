@@ -8,6 +8,12 @@
 // away from zero keeps a credit line the exact mirror of the line it credits.
 
 import { code as currencyRecord } from 'currency-codes'
+// BigInt constants without literals, which the browser build target (es2019) does not allow.
+const ZERO = BigInt(0)
+const ONE = BigInt(1)
+const TWO = BigInt(2)
+const TEN = BigInt(10)
+
 
 /**
  * ISO 4217 codes whose minor unit is "N.A." (precious metals, bond-market units, SDR, testing and "no currency"):
@@ -65,8 +71,8 @@ export function splitInstalments(totalMinor: number, count: number): number[] {
 function divRoundHalfAway(a: bigint, b: bigint): bigint {
   const q = a / b // truncates toward zero
   const r = a % b // same sign as a
-  const twice = (r < 0n ? -r : r) * 2n
-  if (twice >= b) return a < 0n ? q - 1n : q + 1n
+  const twice = (r < ZERO ? -r : r) * TWO
+  if (twice >= b) return a < ZERO ? q - ONE : q + ONE
   return q
 }
 
@@ -115,14 +121,14 @@ export interface InvoiceTotals extends LineTotals {
 /** Sum of the per-line totals (tax is rounded per line, then added up; never recomputed on the sum). */
 export function invoiceTotals(lines: readonly LineInput[]): InvoiceTotals {
   const perLine = lines.map(lineTotals)
-  let net = 0n
-  let tax = 0n
+  let net = ZERO
+  let tax = ZERO
   const rates = new Map<number, { net: bigint; tax: bigint }>()
   perLine.forEach((l, i) => {
     net += BigInt(l.netMinor)
     tax += BigInt(l.taxMinor)
     const bp = lines[i]?.taxRateBasisPoints ?? 0
-    const r = rates.get(bp) ?? { net: 0n, tax: 0n }
+    const r = rates.get(bp) ?? { net: ZERO, tax: ZERO }
     r.net += BigInt(l.netMinor)
     r.tax += BigInt(l.taxMinor)
     rates.set(bp, r)
@@ -193,6 +199,6 @@ export function parseMoney(input: string, currency: string): number {
         : `${upper} has ${digits} decimal places. Enter at most ${digits} digits after the point.`,
     )
   }
-  const minor = BigInt(whole) * 10n ** BigInt(digits) + BigInt(significant.padEnd(digits, '0') || '0')
+  const minor = BigInt(whole) * TEN ** BigInt(digits) + BigInt(significant.padEnd(digits, '0') || '0')
   return toSafe(minor, 'The amount')
 }

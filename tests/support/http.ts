@@ -11,9 +11,9 @@ export class Agent {
     const init: RequestInit = { method, headers: { ...headers }, redirect: 'manual' }
     if (this.cookie) (init.headers as Record<string, string>).cookie = this.cookie
     if (body !== undefined) {
-      if (typeof body === 'string') init.body = body
-      else init.body = JSON.stringify(body)
-      ;(init.headers as Record<string, string>)['content-type'] ??= 'application/json'
+      const raw = typeof body === 'string' || body instanceof FormData || body instanceof Blob || body instanceof Uint8Array || body instanceof ArrayBuffer
+      init.body = raw ? (body as BodyInit) : JSON.stringify(body)
+      if (!raw || typeof body === 'string') (init.headers as Record<string, string>)['content-type'] ??= 'application/json'
     }
     const res = await fetch(`${this.baseUrl}${path}`, init)
     const setCookie = res.headers.getSetCookie()

@@ -48,7 +48,7 @@ export interface Stack {
 }
 
 export async function startStack(opts: { label?: string, env?: Record<string, string>, startSmtp?: boolean } = {}): Promise<Stack> {
-  const entry = resolve(ROOT, '.output/server/index.mjs')
+  const entry = resolve(ROOT, process.env.NUXT_OUTPUT_DIR || '.output', 'server/index.mjs')
   if (!existsSync(entry)) throw new Error('No built server in .output: run `npm run build` (the test command does it for you).')
   const databaseUrl = tempDatabaseUrl(opts.label ?? 'stack')
   await resetDatabase(databaseUrl)
