@@ -3,6 +3,7 @@ import { and, eq, gt, isNull, sql } from 'drizzle-orm'
 import { clientHandlers, clients, invitations, passwordResets, users } from '../database/schema'
 import type { InvitationInput } from '../../shared/schemas/auth'
 import type { AuthUser } from '../utils/authz'
+import type { Tx } from '../utils/db'
 
 type UserRow = typeof users.$inferSelect
 
@@ -37,47 +38,45 @@ export async function verifyCredentials(email: string, password: string): Promis
 }
 
 export async function createInvitation(inviter: AuthUser, input: InvitationInput) {
+  return useDb().transaction(tx => createInvitationIn(tx, inviter, input))
+}
+
+/** Writes an invitation and its e-mail inside the caller's transaction. */
+export async function createInvitationIn(tx: Tx, inviter: AuthUser, input: InvitationInput) {
   const { token, hash } = newToken()
-  const db = useDb()
-  const invitation = await db.transaction(async (tx) => {
-    if (input.role === 'trainer') {
-      const [existing] = await tx.select({ id: users.id }).from(users).where(eq(users.email, input.email)).limit(1)
-      if (existing) throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${input.email} already has an account.` })
-    }
-    else {
-      const [existing] = await tx.select({ id: users.id, role: users.role }).from(users).where(eq(users.email, input.email)).limit(1)
-      if (existing && existing.role !== 'handler') {
-        throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${input.email} belongs to a staff account and cannot be a handler.` })
-      }
-    }
-    const [row] = await tx.insert(invitations).values({
-      tokenHash: hash,
-      email: input.email,
-      name: input.name,
-      role: input.role,
-      clientId: input.role === 'handler' ? input.clientId : null,
-      relationship: input.role === 'handler' ? input.relationship : null,
-      invitedById: inviter.id,
-      expiresAt: new Date(Date.now() + INVITATION_TTL_MS),
-    }).returning()
-    const clientName = input.role === 'handler'
-      ? (await tx.select({ n: clients.householdName }).from(clients).where(eq(clients.id, input.clientId)))[0]?.n
-      : undefined
-    await queueEmail(tx, {
-      to: input.email,
-      ...composeEmail({
-        subject: input.role === 'trainer' ? 'You are invited to join Forescent as a trainer' : `You are invited to the ${clientName} programme on Forescent`,
-        greeting: `Hello ${input.name},`,
-        paragraphs: input.role === 'trainer'
-          ? [`${inviter.name} has invited you to work as a trainer on Forescent.`, 'Open the link below to choose your password. The link works once and expires in 7 days.']
-          : [`${inviter.name} has invited you to the training programme of ${clientName}.`, 'On Forescent you will log sample collections, homework sessions and real alerts, and see your dog\'s progress.', 'Open the link below to choose your password. The link works once and expires in 7 days.'],
-        action: { label: 'Accept the invitation', url: appUrl(`/invitation/${token}`) },
-      }),
-    })
-    await logAudit(tx, { actorId: inviter.id, action: 'invitation.created', entityType: 'invitation', entityId: row!.id, clientId: row!.clientId, data: { email: input.email, role: input.role } })
-    return row!
+  const [existing] = await tx.select({ id: users.id, role: users.role }).from(users).where(eq(users.email, input.email)).limit(1)
+  if (existing && input.role === 'trainer') {
+    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${input.email} already has an account.` })
+  }
+  if (existing && existing.role !== 'handler') {
+    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${input.email} belongs to a staff account and cannot be a handler.` })
+  }
+  const [row] = await tx.insert(invitations).values({
+    tokenHash: hash,
+    email: input.email,
+    name: input.name,
+    role: input.role,
+    clientId: input.role === 'handler' ? input.clientId : null,
+    relationship: input.role === 'handler' ? input.relationship : null,
+    invitedById: inviter.id,
+    expiresAt: new Date(Date.now() + INVITATION_TTL_MS),
+  }).returning()
+  const clientName = input.role === 'handler'
+    ? (await tx.select({ n: clients.householdName }).from(clients).where(eq(clients.id, input.clientId)))[0]?.n
+    : undefined
+  await queueEmail(tx, {
+    to: input.email,
+    ...composeEmail({
+      subject: input.role === 'trainer' ? 'You are invited to join Forescent as a trainer' : `You are invited to the ${clientName} programme on Forescent`,
+      greeting: `Hello ${input.name},`,
+      paragraphs: input.role === 'trainer'
+        ? [`${inviter.name} has invited you to work as a trainer on Forescent.`, 'Open the link below to choose your password. The link works once and expires in 7 days.']
+        : [`${inviter.name} has invited you to the training programme of ${clientName}.`, 'On Forescent you will log sample collections, homework sessions and real alerts, and see your dog\'s progress.', 'Open the link below to choose your password. The link works once and expires in 7 days.'],
+      action: { label: 'Accept the invitation', url: appUrl(`/invitation/${token}`) },
+    }),
   })
-  return { invitation, token }
+  await logAudit(tx, { actorId: inviter.id, action: 'invitation.created', entityType: 'invitation', entityId: row!.id, clientId: row!.clientId, data: { email: input.email, name: input.name, role: input.role } })
+  return { invitation: row!, token }
 }
 
 export async function findOpenInvitation(token: string) {

@@ -34,15 +34,18 @@ export function notFound(what = 'client file'): never {
 
 /**
  * Loads a client the user may see, or answers 404: the same answer for "does not exist" and "not yours".
- * With `write`, handlers are refused (they read their file and edit only their own contact details).
+ * With `write` or `staff`, handlers are refused (they read their file and edit only its contact details).
  */
-export async function requireClientAccess(event: H3Event, clientId: string, opts: { write?: boolean } = {}) {
+export async function requireClientAccess(event: H3Event, clientId: string, opts: { write?: boolean, staff?: boolean } = {}) {
   const user = requireUser(event)
   const scope = clientScope(user)
   const [client] = await useDb().select().from(clients).where(and(eq(clients.id, clientId), scope)).limit(1)
   if (!client) notFound()
   if (opts.write && user.role === 'handler') {
     throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'Only the trainer can change this client file.' })
+  }
+  if (opts.staff && user.role === 'handler') {
+    throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'This part of the file is for the trainer and the office.' })
   }
   return { user, client }
 }

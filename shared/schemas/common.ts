@@ -19,3 +19,11 @@ export const idParams = z.object({ id })
 
 export const optionalText = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`)
   .optional().nullable().transform(v => (v ? v : null))
+
+/** A calendar date as YYYY-MM-DD that really exists (2026-02-30 is refused). */
+export const isoDate = z.string({ invalid_type_error: 'Use a date like 2026-03-31.' })
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-03-31.')
+  .refine((s) => {
+    const d = new Date(`${s}T00:00:00Z`)
+    return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s
+  }, 'This date does not exist on the calendar.')

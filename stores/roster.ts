@@ -1,0 +1,40 @@
+import { defineStore } from 'pinia'
+
+/** Columns a person can show or hide on the roster; the first is always shown. */
+export const ROSTER_COLUMNS = [
+  { id: 'household', label: 'Client', always: true },
+  { id: 'dog', label: 'Dog' },
+  { id: 'condition', label: 'Condition' },
+  { id: 'status', label: 'Stage' },
+  { id: 'started', label: 'Days in programme' },
+  // Filled by later features (milestones, health and homework due dates, the sample bank, homework review,
+  // invoices): listed here so the choices and their order are ready; shown once their data exists.
+  { id: 'milestone', label: 'Current milestone', pending: true },
+  { id: 'nextDue', label: 'Next due', pending: true },
+  { id: 'samples', label: 'Sample stock', pending: true },
+  { id: 'homework', label: 'Homework to review', pending: true },
+  { id: 'balance', label: 'Balance due', pending: true },
+  { id: 'trainer', label: 'Trainer' },
+] as const
+export type RosterColumnId = (typeof ROSTER_COLUMNS)[number]['id']
+
+interface RosterPrefs { hidden: RosterColumnId[], pageSize: number }
+const DEFAULT_PREFS: RosterPrefs = { hidden: [], pageSize: 25 }
+
+/** Roster column choices and page size, kept per signed-in person and persisted in a cookie. */
+export const useRosterStore = defineStore('roster', {
+  state: () => ({ byUser: {} as Record<string, RosterPrefs> }),
+  getters: {
+    prefsFor: state => (userId: string): RosterPrefs => state.byUser[userId] ?? DEFAULT_PREFS,
+  },
+  actions: {
+    update(userId: string, change: Partial<RosterPrefs>) {
+      this.byUser = { ...this.byUser, [userId]: { ...(this.byUser[userId] ?? DEFAULT_PREFS), ...change } }
+    },
+    toggle(userId: string, column: RosterColumnId) {
+      const hidden = this.prefsFor(userId).hidden
+      this.update(userId, { hidden: hidden.includes(column) ? hidden.filter(c => c !== column) : [...hidden, column] })
+    },
+  },
+  persist: { pick: ['byUser'] },
+})
