@@ -14,6 +14,8 @@ export default defineEventHandler(async (event) => {
   await databaseReady()
   const path = event.path
   if (!path.startsWith('/api/') && !isPagePath(path)) return
+  // No cookie, no session: don't let getUserSession() mint an empty one for anonymous requests.
+  if (!getCookie(event, useRuntimeConfig().session.name || 'nuxt-session')) return
   const session = await getUserSession(event)
   if (!session.user?.id) return
   const rc = useRuntimeConfig()
@@ -30,8 +32,9 @@ export default defineEventHandler(async (event) => {
     return
   }
   event.context.authUser = { id: row.id, role: row.role, name: row.name, email: row.email, timeZone: row.timeZone }
-  if (now - session.seenAt > SEEN_REFRESH_MS || row.role !== session.user.role || row.name !== session.user.name) {
-    await replaceUserSession(event, { ...session, user: event.context.authUser, seenAt: now })
+  // Refresh often enough that an active person is never timed out (a quarter of the idle limit at most).
+  if (now - session.seenAt > Math.min(SEEN_REFRESH_MS, idleMs / 4) || row.role !== session.user.role || row.name !== session.user.name) {
+    await replaceUserSession(event, { ...session, user: event.context.authUser, seenAt: now }, sessionCookieConfig())
   }
 })
 

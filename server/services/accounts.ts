@@ -11,10 +11,15 @@ export function toAuthUser(u: Pick<UserRow, 'id' | 'role' | 'name' | 'email' | '
   return { id: u.id, role: u.role, name: u.name, email: u.email, timeZone: u.timeZone }
 }
 
+/** The cookie lives as long as the absolute session limit (the database check ends it sooner when due). */
+export function sessionCookieConfig() {
+  return { maxAge: Number(useRuntimeConfig().sessionAbsoluteSeconds) }
+}
+
 /** Seals a fresh session cookie for this user at their current session version. */
 export async function startSession(event: H3Event, user: UserRow) {
   const now = Date.now()
-  await replaceUserSession(event, { user: toAuthUser(user), sv: user.sessionVersion, issuedAt: now, seenAt: now })
+  await replaceUserSession(event, { user: toAuthUser(user), sv: user.sessionVersion, issuedAt: now, seenAt: now }, sessionCookieConfig())
 }
 
 /** Ends every session of the user at once (all devices) by raising the version sealed in their cookies. */
@@ -89,30 +94,32 @@ export async function findOpenInvitation(token: string) {
 
 const invitationGone = () => createError({ statusCode: 404, statusMessage: 'Not Found', message: 'This invitation link has expired or was already used. Ask your trainer or the office for a new one.' })
 
-/** Accepts an invitation: creates the account (or adds an existing handler to the client file) and marks the link used. */
+/**
+ * Accepts an invitation: creates the account, or, for a handler who already has one (a second household),
+ * checks their existing password and adds the client file. The link is marked used in the same transaction.
+ */
 export async function acceptInvitation(token: string, password: string, name?: string): Promise<UserRow> {
   const invitation = await findOpenInvitation(token)
   if (!invitation) throw invitationGone()
-  const passwordHash = await hashPassword(password)
+  const [existing] = await useDb().select().from(users).where(eq(users.email, invitation.email)).limit(1)
+  if (existing && (existing.role !== invitation.role || existing.disabledAt)) {
+    throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This e-mail already has a different account. Ask the office to help.' })
+  }
+  if (existing && !(existing.passwordHash && await verifyPassword(existing.passwordHash, password))) {
+    throw createError({ statusCode: 422, statusMessage: 'Unprocessable Content', message: 'You already have a Forescent account with this e-mail: enter its password to add this household.', data: { fieldErrors: { password: 'Enter the password of your existing Forescent account.' } } })
+  }
+  const passwordHash = existing ? null : await hashPassword(password)
   return useDb().transaction(async (tx) => {
     const used = await tx.update(invitations).set({ acceptedAt: new Date() })
       .where(and(eq(invitations.id, invitation.id), isNull(invitations.acceptedAt))).returning({ id: invitations.id })
     if (!used.length) throw invitationGone()
-    let [user] = await tx.select().from(users).where(eq(users.email, invitation.email)).limit(1)
-    if (user && (user.role !== invitation.role || user.disabledAt)) {
-      throw createError({ statusCode: 409, statusMessage: 'Conflict', message: 'This e-mail already has a different account. Ask the office to help.' })
-    }
-    if (!user) {
-      [user] = await tx.insert(users).values({ email: invitation.email, name: name || invitation.name, role: invitation.role, passwordHash }).returning()
-    }
-    else {
-      [user] = await tx.update(users).set({ passwordHash, sessionVersion: sql`${users.sessionVersion} + 1` }).where(eq(users.id, user.id)).returning()
-    }
+    const user = existing
+      ?? (await tx.insert(users).values({ email: invitation.email, name: name || invitation.name, role: invitation.role, passwordHash }).returning())[0]!
     if (invitation.role === 'handler' && invitation.clientId) {
-      await tx.insert(clientHandlers).values({ clientId: invitation.clientId, userId: user!.id, relationship: invitation.relationship ?? 'self' }).onConflictDoNothing()
+      await tx.insert(clientHandlers).values({ clientId: invitation.clientId, userId: user.id, relationship: invitation.relationship ?? 'self' }).onConflictDoNothing()
     }
-    await logAudit(tx, { actorId: user!.id, action: 'invitation.accepted', entityType: 'invitation', entityId: invitation.id, clientId: invitation.clientId })
-    return user!
+    await logAudit(tx, { actorId: user.id, action: 'invitation.accepted', entityType: 'invitation', entityId: invitation.id, clientId: invitation.clientId })
+    return user
   })
 }
 

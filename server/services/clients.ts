@@ -37,6 +37,7 @@ export async function listClients(user: AuthUser, q: ClientListQuery) {
   const where = and(...filters)
   const column = SORT_COLUMNS[q.sort]
   const order = q.dir === 'asc' ? asc(column) : desc(column)
+  // Empty values (no dog, not started) sort last in either direction.
   const [rows, [total]] = await Promise.all([
     db.select({
       id: clients.id,
@@ -50,7 +51,7 @@ export async function listClients(user: AuthUser, q: ClientListQuery) {
       dogName: firstDogName,
       updatedAt: clients.updatedAt,
     }).from(clients).innerJoin(trainer, eq(trainer.id, clients.trainerId)).where(where)
-      .orderBy(order, asc(clients.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+      .orderBy(sql`${column} is null`, order, asc(clients.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
     db.select({ n: count() }).from(clients).innerJoin(trainer, eq(trainer.id, clients.trainerId)).where(where),
   ])
   return { rows, total: total?.n ?? 0, page: q.page, pageSize: q.pageSize }

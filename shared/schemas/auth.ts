@@ -11,7 +11,7 @@ export type LoginInput = z.infer<typeof loginSchema>
 export const forgotPasswordSchema = z.object({ email })
 
 export const resetPasswordSchema = z.object({
-  token: z.string().min(20, 'This link is incomplete: open the whole link from the e-mail.').max(200),
+  token: z.string({ required_error: 'This link is incomplete: open the whole link from the e-mail.' }).min(20, 'This link is incomplete: open the whole link from the e-mail.').max(200),
   password: newPassword,
 })
 
@@ -31,7 +31,7 @@ export const invitationSchema = z.discriminatedUnion('role', [
     role: z.literal('handler'),
     email,
     name: personName,
-    clientId: z.string().min(1, 'Choose the client file.').max(64),
+    clientId: z.string({ required_error: 'Choose the client file.' }).min(1, 'Choose the client file.').max(64),
     relationship: z.enum(HANDLER_RELATIONSHIPS).default('self'),
   }),
 ], { errorMap: () => ({ message: 'Choose whom to invite: a trainer or a handler.' }) })

@@ -6,11 +6,11 @@ export const CLIENT_SORTS = ['household', 'person', 'dog', 'condition', 'status'
 
 export const clientListQuery = z.object({
   q: z.string().trim().max(100, 'Search with at most 100 characters.').optional(),
-  condition: z.enum(CONDITIONS).optional(),
-  status: z.enum(CLIENT_STATUSES).optional(),
+  condition: z.enum(CONDITIONS, { errorMap: () => ({ message: `Condition is one of: ${CONDITIONS.join(', ')}.` }) }).optional(),
+  status: z.enum(CLIENT_STATUSES, { errorMap: () => ({ message: `Stage is one of: ${CLIENT_STATUSES.join(', ')}.` }) }).optional(),
   trainerId: z.string().max(64).optional(),
-  sort: z.enum(CLIENT_SORTS).default('household'),
-  dir: z.enum(['asc', 'desc']).default('asc'),
+  sort: z.enum(CLIENT_SORTS, { errorMap: () => ({ message: `Sort by one of: ${CLIENT_SORTS.join(', ')}.` }) }).default('household'),
+  dir: z.enum(['asc', 'desc'], { errorMap: () => ({ message: 'Direction is asc or desc.' }) }).default('asc'),
   page: z.coerce.number().int('Page must be a whole number.').min(1, 'Pages start at 1.').max(100000).default(1),
   pageSize: z.coerce.number().int().min(5, 'Show at least 5 rows.').max(200, 'Show at most 200 rows.').default(25),
 })

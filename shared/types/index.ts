@@ -8,3 +8,8 @@ export type ClientHandlerRow = typeof clientHandlers.$inferSelect
 export type InvitationRow = typeof invitations.$inferSelect
 export type AuditRow = typeof auditLog.$inferSelect
 export type OutboxRow = typeof outbox.$inferSelect
+
+/** A row as it arrives over JSON: dates become ISO strings. */
+export type Jsonified<T> = {
+  [K in keyof T]: T[K] extends Date ? string : T[K] extends Date | null ? string | null : T[K]
+}

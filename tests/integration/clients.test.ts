@@ -1,7 +1,7 @@
 import { createClient as libsql } from '@libsql/client'
 import { beforeEach, describe, expect, inject, it } from 'vitest'
-import { signIn, waitForMail, inbox } from '../support/http'
-import { ADMIN, CLIENT_A, CLIENT_B, HANDLER_A, HANDLER_A_ID, TRAINER_A, TRAINER_A_ID, TRAINER_B, TRAINER_B_ID, TRAINER3_ID } from '../support/people'
+import { Agent, signIn, waitForMail, inbox } from '../support/http'
+import { ADMIN, CLIENT_A, CLIENT_B, HANDLER_A, HANDLER_A_ID, HANDLER_B, TRAINER_A, TRAINER_A_ID, TRAINER_B, TRAINER_B_ID, TRAINER3_ID } from '../support/people'
 import { resetDatabase } from '../support/stack'
 
 const baseUrl = inject('baseUrl')
@@ -146,3 +146,23 @@ describe('the roster query', () => {
   })
 })
 
+
+describe('a handler already on Forescent joins a second household', () => {
+  it('keeps their password: accepting asks for it and adds the household', async () => {
+    const trainer = await signIn(baseUrl, TRAINER_A)
+    expect((await trainer.post('/api/invitations', { role: 'handler', clientId: CLIENT_A, email: HANDLER_B, name: 'Ruth Achterberg', relationship: 'carer' })).status).toBe(201)
+    const mail = await waitForMail(mailUrl, HANDLER_B, 'Fairweather household')
+    const token = mail.text.match(/\/invitation\/([\w-]+)/)![1]!
+    const anon = new Agent(baseUrl)
+    expect((await anon.get(`/api/invitations/${token}`)).body).toMatchObject({ email: HANDLER_B, hasAccount: true })
+    const wrong = await anon.post(`/api/invitations/${token}/accept`, { password: 'some-other-password' })
+    expect(wrong.status).toBe(422)
+    expect(wrong.body.data.fieldErrors.password).toBeTruthy()
+    const ok = await anon.post(`/api/invitations/${token}/accept`, { password: 'forescent-demo' })
+    expect(ok.status).toBe(200)
+    const ids = (await anon.get('/api/clients')).body.rows.map((r: { id: string }) => r.id).sort()
+    expect(ids).toEqual([CLIENT_A, CLIENT_B].sort())
+    // The old password still signs in.
+    expect((await signIn(baseUrl, HANDLER_B)).cookie).toBeTruthy()
+  })
+})

@@ -1,12 +1,12 @@
 import { CLIENT_A, HANDLER_A_ID, TRAINER3_ID, TRAINER_A_ID } from '../../support/people'
-import { clientA, type Row } from '../../support/authz'
+import { clientA, type Actor, type Row } from '../../support/authz'
 
 const intake = { householdName: 'Matrix household', personName: 'Matrix Person', condition: 'migraine', inviteHandler: false }
 
 export const rows: Row[] = [
   {
     route: 'POST /api/clients', path: '/api/clients', mutates: true,
-    body: actor => (actor === 'admin' ? { ...intake, trainerId: TRAINER_A_ID } : intake),
+    body: (actor: Actor) => (actor === 'admin' ? { ...intake, trainerId: TRAINER_A_ID } : intake),
     expect: { anonymous: 401, handlerA: 403, handlerB: 403, trainerA: 201, trainerB: 201, admin: 201 },
   },
   { route: 'PATCH /api/clients/[id]', path: `/api/clients/${CLIENT_A}`, body: { notes: 'Prefers morning visits.' }, mutates: true, expect: clientA(200, 403) },
