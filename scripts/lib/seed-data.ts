@@ -4,6 +4,7 @@ import { sql } from 'drizzle-orm'
 import type { Database } from '../../server/database/client'
 import * as s from '../../server/database/schema'
 import { hashPassword } from './password'
+import { DOG_TABLES_CHILD_FIRST, bulkDogHistory, seedDogProfile } from './seed-dogs'
 
 export const DEMO_PASSWORD = process.env.DEMO_PASSWORD || 'forescent-demo'
 export const BUSINESS_NAME = 'Larkspur Scent Partners'
@@ -58,7 +59,7 @@ export const CLIENTS: ClientSeed[] = [
   { key: 'ferris', trainer: 'trainer3', household: 'Ferris household', person: 'Elliot Ferris', condition: 'seizure', conditionDetail: 'Epilepsy, age 9', status: 'active', startedDaysAgo: 98, earlySigns: 'Staring spells before larger seizures.', frequency: 'About 5 a month', onset: 'Early morning', town: 'Kestle Bay', handlers: [{ key: 'h-ferris', relationship: 'parent' }], dog: { name: 'Wren', breed: 'Australian Shepherd', sex: 'female', ageDays: 700, source: 'programme-bred', status: 'in-training' } },
 ]
 
-const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'password_resets', 'invitations', 'dogs', 'client_handlers', 'clients', 'users'] as const
+const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
 
 /** Empties every table and writes the demo scenario, in one transaction. */
 export async function seedDemo(db: Database, opts: { extraClients?: number } = {}) {
@@ -84,6 +85,7 @@ export async function seedDemo(db: Database, opts: { extraClients?: number } = {
         id: seedId(`dog:${c.key}`), clientId, name: c.dog.name, breed: c.dog.breed, sex: c.dog.sex,
         dateOfBirth: isoDay(daysAgo(today, c.dog.ageDays)), source: c.dog.source, status: c.dog.status,
       })
+      await seedDogProfile(tx, { key: c.key, dogId: seedId(`dog:${c.key}`), trainerId: seedId(`user:${c.trainer}`), status: c.dog.status, startedDaysAgo: c.startedDaysAgo, today, seedId })
     }
     const extra = opts.extraClients ?? 0
     if (extra > 0) await seedExtraClients(tx, extra, today)
@@ -102,6 +104,8 @@ async function seedExtraClients(tx: Parameters<Parameters<Database['transaction'
   for (let start = 0; start < n; start += BATCH) {
     const rows = []
     const dogRows = []
+    const dogChanges = []
+    const dogAssessmentRows = []
     for (let i = start; i < Math.min(n, start + BATCH); i++) {
       const id = seedId(`bulk-client:${i}`)
       const f = family[i % family.length]!
@@ -111,9 +115,14 @@ async function seedExtraClients(tx: Parameters<Parameters<Database['transaction'
         status: statuses[i % statuses.length]!, programmeStartedOn: isoDay(daysAgo(today, (i * 13) % 700)),
         town: 'Bulkton', updatedAt: daysAgo(today, i % 90),
       })
-      dogRows.push({ id: seedId(`bulk-dog:${i}`), clientId: id, name: dogsNames[(i * 3) % dogsNames.length]!, status: 'in-training' as const })
+      dogRows.push({ id: seedId(`bulk-dog:${i}`), clientId: id, name: dogsNames[(i * 3) % dogsNames.length]!, status: 'in-training' as const, acceptedOn: isoDay(daysAgo(today, ((i * 13) % 700) + 2)) })
+      const history = bulkDogHistory({ dogId: seedId(`bulk-dog:${i}`), i, startedDaysAgo: (i * 13) % 700, trainerId: rows.at(-1)!.trainerId, today, seedId })
+      dogChanges.push(...history.changes)
+      dogAssessmentRows.push(history.assessment)
     }
     await tx.insert(s.clients).values(rows)
     await tx.insert(s.dogs).values(dogRows)
+    await tx.insert(s.dogStatusChanges).values(dogChanges)
+    await tx.insert(s.dogAssessments).values(dogAssessmentRows)
   }
 }

@@ -54,7 +54,8 @@ export async function listClients(user: AuthUser, q: ClientListQuery) {
       .orderBy(sql`${column} is null`, order, asc(clients.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
     db.select({ n: count() }).from(clients).innerJoin(trainer, eq(trainer.id, clients.trainerId)).where(where),
   ])
-  return { rows, total: total?.n ?? 0, page: q.page, pageSize: q.pageSize }
+  const extras = await rosterExtras(rows.map(r => r.id))
+  return { rows: rows.map(r => ({ ...r, extras: extras.get(r.id) ?? {} })), total: total?.n ?? 0, page: q.page, pageSize: q.pageSize }
 }
 
 export async function getClientFile(user: AuthUser, client: ClientRow) {

@@ -1,7 +1,7 @@
 // Starts what the tests run against: a fresh SQLite file with the demo scenario, the fake SMTP service and the
 // built server (.output) as a real HTTP server on a free port.
 import { spawn, type ChildProcess } from 'node:child_process'
-import { mkdirSync, existsSync } from 'node:fs'
+import { mkdirSync, existsSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { resolve } from 'node:path'
 import { randomBytes } from 'node:crypto'
@@ -29,8 +29,15 @@ export function tempDatabaseUrl(label: string): string {
   return `file:${resolve(dir, `${label}-${Date.now()}-${randomBytes(3).toString('hex')}.db`)}`
 }
 
+/** The stack's file storage folder (FILES_DIR), beside its database under tests/.tmp, so tests can look inside. */
+export function filesDirFor(databaseUrl: string): string {
+  return `${databaseUrl.replace(/^file:/, '').replace(/\.db$/, '')}-files`
+}
+
 /** Migrates and (re)seeds the database with the demo scenario. */
 export async function resetDatabase(url: string) {
+  // The stored files belong to the rows being wiped: clear them too, so a reseed is a clean slate.
+  rmSync(filesDirFor(url), { recursive: true, force: true })
   const { client, db } = openDatabase(url)
   await prepareDatabase(client, url)
   await migrateDatabase(db)
@@ -64,6 +71,7 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       PORT: String(port),
       HOST: '127.0.0.1',
       DATABASE_URL: databaseUrl,
+      FILES_DIR: filesDirFor(databaseUrl),
       NUXT_SESSION_PASSWORD: TEST_SESSION_PASSWORD,
       SMTP_HOST: '127.0.0.1',
       SMTP_PORT: String(smtpPort),

@@ -68,8 +68,15 @@ export const dogs = sqliteTable('dogs', {
   microchip: text('microchip'),
   source: text('source', { enum: DOG_SOURCES }),
   status: text('status', { enum: DOG_STATUSES }).notNull().default('assessment'),
+  // The first day an assessment with the outcome 'accept' was recorded: the dog's acceptance into the programme.
+  acceptedOn: text('accepted_on'),
+  notes: text('notes'),
   ...timestamps,
-}, t => [index('dogs_client_idx').on(t.clientId)])
+}, t => [
+  index('dogs_client_idx').on(t.clientId),
+  // A microchip names one animal (ISO 11784): two dogs with the same number is a typing mistake.
+  uniqueIndex('dogs_microchip_unique').on(t.microchip),
+])
 
 export const invitations = sqliteTable('invitations', {
   id: id(),
