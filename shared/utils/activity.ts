@@ -37,9 +37,16 @@ export function describeActivity(e: ActivityEntry): string {
     case 'invitation.accepted': return `${who} accepted the invitation and joined`
     case 'handler.removed': return `${who} removed ${str(d.name) || 'a handler'} from the file`
     case 'client.reassigned': return `${who} moved the file from ${str(d.from) || 'the previous trainer'} to ${str(d.to)}`
+    case 'document.updated': {
+      const to = (d.to ?? {}) as Record<string, unknown>
+      return `${who} updated document${str(to.title) ? `: ${str(to.title)}` : ''}`
+    }
     default: {
-      const [thing, verb] = e.action.split('.')
-      return `${who} ${(verb ?? 'changed').replace(/-/g, ' ')} ${(thing ?? e.entityType).replace(/-/g, ' ')}${str(d.title) ? `: ${str(d.title)}` : str(d.name) ? `: ${str(d.name)}` : ''}`
+      // "dog.photo.added" → "added dog photo"
+      const parts = e.action.split('.')
+      const verb = parts.length > 1 ? parts.pop()! : 'changed'
+      const thing = parts.join(' ') || e.entityType
+      return `${who} ${verb.replace(/-/g, ' ')} ${thing.replace(/-/g, ' ')}${str(d.title) ? `: ${str(d.title)}` : str(d.name) ? `: ${str(d.name)}` : ''}`
     }
   }
 }

@@ -18,5 +18,7 @@ describe('describeActivity', () => {
   })
   it('falls back to a readable line for other actions, and copes with no actor', () => {
     expect(describeActivity({ entityType: 'document', actorName: null, action: 'document.deleted', data: { title: 'Consent form' } })).toBe('Someone deleted document: Consent form')
+    expect(describeActivity({ ...base, entityType: 'dog', action: 'dog.photo.added', data: { name: 'Juniper' } })).toBe('Maren Holt added dog photo: Juniper')
+    expect(describeActivity({ ...base, entityType: 'document', action: 'document.updated', data: { from: { title: 'Scan 1' }, to: { title: 'Vaccination card' } } })).toBe('Maren Holt updated document: Vaccination card')
   })
 })
