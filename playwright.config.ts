@@ -15,6 +15,9 @@ export default defineConfig({
   outputDir: 'test-results',
   use: {
     baseURL: process.env.E2E_BASE_URL,
+    // Our users are a UK business and its households (the demo's locale and time zone).
+    locale: 'en-GB',
+    timezoneId: 'Europe/London',
     trace: 'retain-on-failure',
     screenshot: 'only-on-failure',
     launchOptions: {

@@ -7,11 +7,12 @@ export const ROSTER_COLUMNS = [
   { id: 'condition', label: 'Condition' },
   { id: 'status', label: 'Stage' },
   { id: 'started', label: 'Days in programme' },
-  // Filled by later features (milestones, health and homework due dates, the sample bank, homework review,
-  // invoices): listed here so the choices and their order are ready; shown once their data exists.
+  // Columns marked pending wait for their feature (milestones, homework review, invoices): listed so the choices
+  // and their order are ready; shown once their data exists.
   { id: 'milestone', label: 'Current milestone', pending: true },
-  { id: 'nextDue', label: 'Next due', pending: true },
-  { id: 'samples', label: 'Sample stock', pending: true },
+  { id: 'nextDue', label: 'Next due' },
+  { id: 'samples', label: 'Sample stock' },
+  { id: 'diary', label: 'Real-life alerts' },
   { id: 'homework', label: 'Homework to review', pending: true },
   { id: 'balance', label: 'Balance due', pending: true },
   { id: 'trainer', label: 'Trainer' },

@@ -4,6 +4,9 @@
 type Provider = (clientIds: string[]) => Promise<Map<string, unknown>>
 
 const PROVIDERS: Record<string, Provider> = {
+  nextDue: clientIds => rosterNextDue(clientIds),
+  samples: clientIds => sampleRosterStatus(clientIds),
+  diary: clientIds => diaryRosterFigures(clientIds),
 }
 
 export async function rosterExtras(clientIds: string[]): Promise<Map<string, Record<string, unknown>>> {

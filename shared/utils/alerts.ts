@@ -199,26 +199,29 @@ export function matchAlerts(
     }
   })
 
-  const trueAlerts = matchedAlerts.filter((alert) => alert.isTrue).length
-  const warnedEpisodes = matchedEpisodes.filter((episode) => episode.warned).length
-  const leads = matchedEpisodes.flatMap((episode) => (episode.leadMinutes === null ? [] : [episode.leadMinutes]))
-  const leadMedian = quantile(leads, 0.5)
+  return { alerts: matchedAlerts, episodes: matchedEpisodes, totals: diaryTotals(matchedAlerts, matchedEpisodes) }
+}
 
+/**
+ * The totals of matched alerts and episodes (any subset of one matchAlerts result, e.g. a recent period: an
+ * alert keeps its truth and an episode its lead from the whole diary's matching).
+ */
+export function diaryTotals(alerts: readonly MatchedAlert[], episodes: readonly MatchedEpisode[]): DiaryMatch['totals'] {
+  const trueAlerts = alerts.filter((alert) => alert.isTrue).length
+  const warnedEpisodes = episodes.filter((episode) => episode.warned).length
+  const leads = episodes.flatMap((episode) => (episode.leadMinutes === null ? [] : [episode.leadMinutes]))
+  const leadMedian = quantile(leads, 0.5)
   return {
-    alerts: matchedAlerts,
-    episodes: matchedEpisodes,
-    totals: {
-      alerts: alerts.length,
-      episodes: episodes.length,
-      trueAlerts,
-      warnedEpisodes,
-      warnedShare: wilsonInterval(warnedEpisodes, episodes.length),
-      positivePredictiveValue: wilsonInterval(trueAlerts, alerts.length),
-      leadMinutes:
-        leadMedian === null
-          ? null
-          : { median: leadMedian, q1: quantile(leads, 0.25) as number, q3: quantile(leads, 0.75) as number },
-    },
+    alerts: alerts.length,
+    episodes: episodes.length,
+    trueAlerts,
+    warnedEpisodes,
+    warnedShare: wilsonInterval(warnedEpisodes, episodes.length),
+    positivePredictiveValue: wilsonInterval(trueAlerts, alerts.length),
+    leadMinutes:
+      leadMedian === null
+        ? null
+        : { median: leadMedian, q1: quantile(leads, 0.25) as number, q3: quantile(leads, 0.75) as number },
   }
 }
 
@@ -244,9 +247,9 @@ export function formatDuration(minutes: number): string {
  * than MIN_EPISODES_FOR_EVIDENCE episodes are logged, a note says the diary is too short to judge by.
  *
  * `conditionLabel` is the plural noun for the episodes as it should read in the sentence ("migraines",
- * "low blood sugar episodes", "seizures").
+ * "low blood sugar episodes", "seizures"); `whose` is "your" for the handler, e.g. "the person's" for the trainer.
  */
-export function summariseDiary(result: DiaryMatch, conditionLabel: string): string {
+export function summariseDiary(result: DiaryMatch, conditionLabel: string, whose = 'your'): string {
   const { episodes, warnedEpisodes, leadMinutes } = result.totals
   const label = conditionLabel.trim()
   if (episodes === 0) {
@@ -258,12 +261,12 @@ export function summariseDiary(result: DiaryMatch, conditionLabel: string): stri
   if (episodes === 1) {
     sentence =
       warnedEpisodes === 1
-        ? `One of your ${label} is logged so far, and the dog warned of it about ${before}.`
-        : `One of your ${label} is logged so far, and the dog did not warn of it.`
+        ? `One of ${whose} ${label} is logged so far, and the dog warned of it about ${before}.`
+        : `One of ${whose} ${label} is logged so far, and the dog did not warn of it.`
   } else if (warnedEpisodes === 0) {
-    sentence = `The dog did not warn of any of your last ${episodes} ${label}.`
+    sentence = `The dog did not warn of any of ${whose} last ${episodes} ${label}.`
   } else {
-    sentence = `The dog warned of ${warnedEpisodes} of your last ${episodes} ${label}, on average about ${before}.`
+    sentence = `The dog warned of ${warnedEpisodes} of ${whose} last ${episodes} ${label}, on average about ${before}.`
   }
 
   if (episodes < MIN_EPISODES_FOR_EVIDENCE) {

@@ -773,3 +773,115 @@ export function bagCodeKind(value: string): SampleKind | null {
   if (!isBagCode(value)) return null
   return value.startsWith('T') ? 'target' : 'control'
 }
+
+// ---------------------------------------------------------------------------------------------------------------
+// Bank summary and restocking episodes
+
+export interface KindSummary {
+  /** Samples by status ('usable', 'maintenance-only', …). */
+  byStatus: Record<SampleStatus, number>
+  /** Usable or maintenance-only samples whose expiry falls within restockThresholdDays of now. */
+  expiringSoon: number
+  /** Usable samples that turn maintenance-only within restockThresholdDays of now. */
+  renewSoon: number
+}
+
+export interface BankSummary {
+  target: KindSummary
+  control: KindSummary
+  /** Uses out of the freezer now, and those out longer than maxMinutesOutPerUse. */
+  openUses: number
+  overdueUses: number
+}
+
+const emptyByStatus = (): Record<SampleStatus, number> =>
+  ({ usable: 0, 'maintenance-only': 0, expired: 0, 'used-up': 0, compromised: 0, discarded: 0 })
+
+/** Counts a household's samples by kind and status, with what falls due within the restock threshold. */
+export function bankSummary(
+  samples: readonly Sample[],
+  uses: readonly SampleUse[],
+  now: Date = new Date(),
+  policy: SamplePolicy = DEFAULT_SAMPLE_POLICY,
+): BankSummary {
+  const t = now.getTime()
+  const soon = t + policy.restockThresholdDays * DAY_MS
+  const kinds: Record<SampleKind, KindSummary> = {
+    target: { byStatus: emptyByStatus(), expiringSoon: 0, renewSoon: 0 },
+    control: { byStatus: emptyByStatus(), expiringSoon: 0, renewSoon: 0 },
+  }
+  let openUses = 0
+  let overdueUses = 0
+  for (const sample of samples) {
+    const state = sampleState(sample, uses, now, policy)
+    const k = kinds[sample.kind]
+    k.byStatus[state.status] += 1
+    if ((state.status === 'usable' || state.status === 'maintenance-only') && Date.parse(state.expiresAt) <= soon) k.expiringSoon += 1
+    if (state.status === 'usable' && Date.parse(state.renewAt) <= soon) k.renewSoon += 1
+    if (state.openUse) openUses += 1
+    if (state.overdueUse) overdueUses += 1
+  }
+  return { ...kinds, openUses, overdueUses }
+}
+
+export interface RestockState {
+  restockDue: boolean
+  /** How many low-stock episodes this household has had; the reminder is keyed on it. */
+  episode: number
+}
+
+/**
+ * The next restocking state from the previous one and a fresh forecast. A low-stock episode starts when either kind
+ * becomes due for restocking after neither was; `remind` is true exactly then (one reminder per episode), and the
+ * episode ends when both kinds are healthy again.
+ */
+export function restockTransition(
+  prev: RestockState | null,
+  forecast: StockForecast,
+): RestockState & { remind: boolean, lowKinds: SampleKind[] } {
+  const lowKinds = SAMPLE_KINDS.filter(k => forecast[k].restockDue)
+  const due = lowKinds.length > 0
+  const before = prev ?? { restockDue: false, episode: 0 }
+  const starts = due && !before.restockDue
+  return { restockDue: due, episode: before.episode + (starts ? 1 : 0), remind: starts, lowKinds }
+}
+
+/** What the roster shows for a household's bank (kept with the household's stock status). */
+export interface SampleRosterValue {
+  restockDue: boolean
+  target: { usesLeft: number, daysLeft: number | null, restockDue: boolean }
+  control: { usesLeft: number, daysLeft: number | null, restockDue: boolean }
+  /** Compromised samples not overridden (quick saves still waiting for their checklist are counted apart). */
+  compromised: number
+  awaitingAnswers: number
+  expiringSoon: number
+  overdueUses: number
+  /** When the collection reminder of the current low-stock episode was queued; null when stock is healthy. */
+  reminderQueuedAt: string | null
+}
+
+/** `awaitingAnswers`: quick-saved samples among the compromised ones (their checklist is not answered yet). */
+export function stockRosterValue(forecast: StockForecast, summary: BankSummary, reminderQueuedAt: Date | null, awaitingAnswers = 0): SampleRosterValue {
+  const kind = (k: SampleKind) => ({ usesLeft: forecast[k].usesLeft, daysLeft: forecast[k].daysLeft, restockDue: forecast[k].restockDue })
+  return {
+    restockDue: forecast.target.restockDue || forecast.control.restockDue,
+    target: kind('target'),
+    control: kind('control'),
+    compromised: Math.max(0, summary.target.byStatus.compromised + summary.control.byStatus.compromised - awaitingAnswers),
+    awaitingAnswers,
+    expiringSoon: summary.target.expiringSoon + summary.control.expiringSoon,
+    overdueUses: summary.overdueUses,
+    reminderQueuedAt: reminderQueuedAt?.toISOString() ?? null,
+  }
+}
+
+/** Words for a sample's status on screen; 'awaiting-answers' is a quick save whose checklist is not answered yet. */
+export const SAMPLE_STATUS_LABELS: Record<SampleStatus | 'awaiting-answers', string> = {
+  usable: 'Ready',
+  'maintenance-only': 'Maintenance only',
+  expired: 'Expired',
+  'used-up': 'Used up',
+  compromised: 'Compromised',
+  discarded: 'Thrown away',
+  'awaiting-answers': 'Checklist to finish',
+}

@@ -77,6 +77,8 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       SMTP_PORT: String(smtpPort),
       APP_URL: baseUrl,
       OUTBOX_INTERVAL_MS: '250',
+      // The periodic sample-stock check looks every second (it only refreshes households whose status is stale).
+      SAMPLE_CHECK_INTERVAL_MS: '1000',
       ...opts.env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],

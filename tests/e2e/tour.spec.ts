@@ -1,0 +1,51 @@
+// A walk through each role's main pages at phone and desktop widths: every page renders its heading without
+// browser errors. With E2E_SCREENSHOTS=<folder> it also leaves a screenshot of each page to look at.
+import { expect, test } from '@playwright/test'
+import { ADMIN, CLIENT_A, HANDLER_A, TRAINER_A } from '../support/people'
+import { DESKTOP, PHONE, shot, signInAs } from './helpers'
+
+const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp | string }[] }[] = [
+  { who: 'admin', email: ADMIN, pages: [
+    { path: '/admin', heading: 'Business overview' },
+    { path: '/admin/clients', heading: 'All clients' },
+    { path: '/admin/trainers', heading: 'Trainers' },
+    { path: '/admin/settings', heading: 'Policies' },
+  ] },
+  { who: 'trainer', email: TRAINER_A, pages: [
+    { path: '/trainer', heading: 'Your roster' },
+    { path: `/trainer/clients/${CLIENT_A}`, heading: 'Fairweather household' },
+    { path: '/trainer/clients/new', heading: 'New client' },
+  ] },
+  { who: 'handler', email: HANDLER_A, pages: [
+    { path: '/handler', heading: 'Ada Fairweather' },
+    { path: `/handler/clients/${CLIENT_A}`, heading: 'Fairweather household' },
+  ] },
+]
+
+for (const viewport of [{ name: 'phone', size: PHONE }, { name: 'desktop', size: DESKTOP }]) {
+  for (const role of TOUR) {
+    test(`${role.who} pages render on a ${viewport.name}`, async ({ page }) => {
+      const problems: string[] = []
+      page.on('pageerror', e => problems.push(e.message))
+      // Failed requests are judged by their URL below; a dog without a photo answers 404 by design.
+      page.on('console', (m) => { if (m.type() === 'error' && !m.text().startsWith('Failed to load resource')) problems.push(m.text()) })
+      page.on('response', (r) => {
+        if (r.status() >= 400 && !(r.status() === 404 && /\/api\/dogs\/[^/]+\/photo/.test(r.url()))) problems.push(`${r.status()} ${r.url()}`)
+      })
+      await page.setViewportSize(viewport.size)
+      await signInAs(page, role.email)
+      for (const p of role.pages) {
+        await page.goto(p.path)
+        await expect(page.getByRole('heading', { level: 1 })).toContainText(p.heading)
+        await page.waitForLoadState('networkidle')
+        // Nothing wider than the screen on a phone.
+        if (viewport.name === 'phone') {
+          const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)
+          expect(overflow, `${p.path} is wider than the phone screen`).toBeLessThanOrEqual(1)
+        }
+        await shot(page, `tour-${role.who}-${p.path.split('/').filter(Boolean).slice(1).join('-').slice(0, 24) || 'home'}-${viewport.name}`)
+      }
+      expect(problems).toEqual([])
+    })
+  }
+}
