@@ -15,10 +15,15 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: '/trainer', heading: 'Your roster' },
     { path: `/trainer/clients/${CLIENT_A}`, heading: 'Fairweather household' },
     { path: '/trainer/clients/new', heading: 'New client' },
+    { path: `/trainer/clients/${CLIENT_A}/samples`, heading: 'Sample bank' },
+    { path: `/trainer/clients/${CLIENT_A}/diary`, heading: /diary/i },
   ] },
   { who: 'handler', email: HANDLER_A, pages: [
     { path: '/handler', heading: 'Ada Fairweather' },
     { path: `/handler/clients/${CLIENT_A}`, heading: 'Fairweather household' },
+    { path: `/handler/samples/${CLIENT_A}`, heading: 'Our samples' },
+    { path: `/handler/samples/${CLIENT_A}/collect`, heading: 'Collect a sample' },
+    { path: `/handler/diary/${CLIENT_A}`, heading: /diary/i },
   ] },
 ]
 
@@ -43,7 +48,8 @@ for (const viewport of [{ name: 'phone', size: PHONE }, { name: 'desktop', size:
           const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)
           expect(overflow, `${p.path} is wider than the phone screen`).toBeLessThanOrEqual(1)
         }
-        await shot(page, `tour-${role.who}-${p.path.split('/').filter(Boolean).slice(1).join('-').slice(0, 24) || 'home'}-${viewport.name}`)
+        const name = p.path.split('/').filter(Boolean).slice(1).map(x => (x.length > 20 ? 'A' : x)).join('-') || 'home'
+        await shot(page, `tour-${role.who}-${name}-${viewport.name}`)
       }
       expect(problems).toEqual([])
     })
