@@ -4,6 +4,7 @@ import { existsSync, rmSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { migrateDatabase, openDatabase, prepareDatabase } from '../server/database/client'
 import { startFakeSmtp } from '../fake-services/smtp/server.mjs'
+import { startFakeStripe } from '../fake-services/stripe/server.mjs'
 import { seedDemo, PEOPLE, DEMO_PASSWORD, BUSINESS_NAME } from './lib/seed-data'
 
 const root = resolve(import.meta.dirname, '..')
@@ -28,6 +29,10 @@ await seedDemo(db)
 client.close()
 
 const smtp = await startFakeSmtp({ smtpPort, httpPort: mailHttpPort, quiet: true })
+// The fake Stripe: card payments on its own test page, signed webhooks to the app (fake-services/stripe).
+const stripePort = Number(process.env.FAKE_STRIPE_PORT || 12111)
+const stripeWebhookSecret = process.env.STRIPE_WEBHOOK_SECRET || 'whsec_demo_not_for_production'
+const stripe = await startFakeStripe({ port: stripePort, webhookUrl: `http://127.0.0.1:${port}/api/webhooks/stripe`, webhookSecret: stripeWebhookSecret, quiet: true })
 const app = spawn(process.execPath, [resolve(root, '.output/server/index.mjs')], {
   cwd: root,
   stdio: 'inherit',
@@ -40,6 +45,11 @@ const app = spawn(process.execPath, [resolve(root, '.output/server/index.mjs')],
     SMTP_HOST: '127.0.0.1',
     SMTP_PORT: String(smtpPort),
     APP_URL: appUrl,
+    STRIPE_SECRET_KEY: 'sk_test_demo',
+    STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
+    STRIPE_API_HOST: '127.0.0.1',
+    STRIPE_API_PORT: String(stripePort),
+    STRIPE_API_PROTOCOL: 'http',
   },
 })
 
@@ -48,6 +58,7 @@ console.log(`
 Forescent demo: ${BUSINESS_NAME} (an invented business)
   App            ${appUrl}
   Mail inbox     http://localhost:${mailHttpPort}   (every e-mail the app sends lands here)
+  Card payments  http://localhost:${stripePort}   (fake Stripe; test card 4242 4242 4242 4242)
   Database       ${databaseUrl}
 
 Sign in with any of these; the password is "${DEMO_PASSWORD}":
@@ -58,11 +69,13 @@ Press Ctrl+C to stop.`)
 const stop = async () => {
   app.kill('SIGTERM')
   await smtp.close()
+  await stripe.close()
   process.exit(0)
 }
 process.on('SIGINT', stop)
 process.on('SIGTERM', stop)
 app.on('exit', async (code) => {
   await smtp.close()
+  await stripe.close()
   process.exit(code ?? 0)
 })

@@ -7,6 +7,8 @@ import { hashPassword } from './password'
 import { DOG_TABLES_CHILD_FIRST, bulkDogHistory, seedDogProfile } from './seed-dogs'
 import { DIARY_TABLES_CHILD_FIRST, seedDiaries } from './seed-diary'
 import { SAMPLE_TABLES_CHILD_FIRST, seedSampleBanks } from './seed-samples'
+import { TRAINING_TABLES_CHILD_FIRST, seedTraining } from './seed-training'
+import { INVOICE_TABLES_CHILD_FIRST, seedInvoices } from './seed-invoices'
 
 export const DEMO_PASSWORD = process.env.DEMO_PASSWORD || 'forescent-demo'
 export const BUSINESS_NAME = 'Larkspur Scent Partners'
@@ -61,7 +63,7 @@ export const CLIENTS: ClientSeed[] = [
   { key: 'ferris', trainer: 'trainer3', household: 'Ferris household', person: 'Elliot Ferris', condition: 'seizure', conditionDetail: 'Epilepsy, age 9', status: 'active', startedDaysAgo: 98, earlySigns: 'Staring spells before larger seizures.', frequency: 'About 5 a month', onset: 'Early morning', town: 'Kestle Bay', handlers: [{ key: 'h-ferris', relationship: 'parent' }], dog: { name: 'Wren', breed: 'Australian Shepherd', sex: 'female', ageDays: 700, source: 'programme-bred', status: 'in-training' } },
 ]
 
-const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
+const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...INVOICE_TABLES_CHILD_FIRST, ...TRAINING_TABLES_CHILD_FIRST, ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
 
 /** Empties every table and writes the demo scenario, in one transaction. */
 export async function seedDemo(db: Database, opts: { extraClients?: number } = {}) {
@@ -90,7 +92,9 @@ export async function seedDemo(db: Database, opts: { extraClients?: number } = {
       await seedDogProfile(tx, { key: c.key, dogId: seedId(`dog:${c.key}`), trainerId: seedId(`user:${c.trainer}`), status: c.dog.status, startedDaysAgo: c.startedDaysAgo, today, seedId })
     }
     await seedDiaries(tx, today, seedId)
+    await seedInvoices(tx, today, seedId)
     await seedSampleBanks(tx, { today, seedId, handlerOf: (key) => { const h = PEOPLE.find(p => p.key === CLIENTS.find(x => x.key === key)!.handlers[0]!.key)!; return { id: seedId(`user:${h.key}`), email: h.email, name: h.name } } })
+    await seedTraining(tx, { today, seedId })
     const extra = opts.extraClients ?? 0
     if (extra > 0) await seedExtraClients(tx, extra, today)
   })

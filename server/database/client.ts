@@ -12,15 +12,77 @@ export const DEFAULT_DATABASE_URL = 'file:./data/forescent.db'
 export const BUSY_TIMEOUT_MS = 5000
 
 /** Opens the database named by url (an SQLite file or a libSQL server) with our connection settings. */
-export function openDatabase(url = DEFAULT_DATABASE_URL, authToken?: string): { client: Client, db: Database } {
+export function openDatabase(url = DEFAULT_DATABASE_URL, authToken?: string, opts: { serialiseWrites?: boolean } = {}): { client: Client, db: Database } {
   if (url.startsWith('file:')) {
     const path = url.slice('file:'.length)
     if (path && path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true })
   }
   // `timeout` is applied by the client to every pooled connection as SQLite's busy timeout; libSQL opens
   // connections with foreign keys enforced. Both hold inside transactions (see tests/integration/db.test.ts).
-  const client = createClient({ url, authToken: authToken || undefined, timeout: BUSY_TIMEOUT_MS })
+  const raw = createClient({ url, authToken: authToken || undefined, timeout: BUSY_TIMEOUT_MS })
+  const client = url.startsWith('file:') && opts.serialiseWrites !== false ? serialiseWrites(raw) : raw
   return { client, db: drizzle(client, { schema }) }
+}
+
+const READ_ONLY = /^\s*(select\b|pragma\s+\w+\s*$|explain\b)/i
+
+/**
+ * The embedded SQLite driver is synchronous: a write that meets another connection's open write transaction waits
+ * for the lock while blocking the event loop, so the transaction holding the lock can never finish (until the busy
+ * timeout fails both). Within one process we therefore queue every write - transactions, batches and single
+ * writing statements - behind one another; reads still run at once (WAL lets them read beside a writer).
+ * Several processes sharing one file still rely on the busy timeout; a libSQL server needs none of this.
+ */
+export function serialiseWrites(client: Client): Client {
+  let tail: Promise<void> = Promise.resolve()
+  function lock(): Promise<() => void> {
+    let release!: () => void
+    const held = new Promise<void>((r) => { release = r })
+    const ready = tail.then(() => release)
+    tail = tail.then(() => held)
+    return ready
+  }
+  async function withLock<T>(fn: () => Promise<T>): Promise<T> {
+    const release = await lock()
+    try { return await fn() }
+    finally { release() }
+  }
+  const sqlOf = (stmt: unknown) => (typeof stmt === 'string' ? stmt : (stmt as { sql?: string })?.sql ?? '')
+  return new Proxy(client, {
+    get(target, prop, receiver) {
+      if (prop === 'execute') {
+        return (stmt: Parameters<Client['execute']>[0], ...rest: unknown[]) => (READ_ONLY.test(sqlOf(stmt))
+          ? (target.execute as (...a: unknown[]) => ReturnType<Client['execute']>)(stmt, ...rest)
+          : withLock(() => (target.execute as (...a: unknown[]) => ReturnType<Client['execute']>)(stmt, ...rest)))
+      }
+      if (prop === 'batch' || prop === 'migrate' || prop === 'executeMultiple') {
+        const fn = Reflect.get(target, prop, receiver) as (...a: unknown[]) => Promise<unknown>
+        return (...args: unknown[]) => withLock(() => fn.apply(target, args))
+      }
+      if (prop === 'transaction') {
+        return async (...args: Parameters<Client['transaction']>) => {
+          const release = await lock()
+          let tx: Awaited<ReturnType<Client['transaction']>>
+          try { tx = await target.transaction(...args) }
+          catch (err) { release(); throw err }
+          let done = false
+          const finish = () => { if (!done) { done = true; release() } }
+          return new Proxy(tx, {
+            get(t, p, r) {
+              const v = Reflect.get(t, p, r)
+              if (p === 'commit' || p === 'rollback') {
+                return async () => { try { return await (v as () => Promise<void>).call(t) } finally { finish() } }
+              }
+              if (p === 'close') return () => { try { (v as () => void).call(t) } finally { finish() } }
+              return typeof v === 'function' ? v.bind(t) : v
+            },
+          })
+        }
+      }
+      const v = Reflect.get(target, prop, receiver)
+      return typeof v === 'function' ? v.bind(target) : v
+    },
+  })
 }
 
 /** Once per database file: write-ahead logging, so readers never wait for the writer. */

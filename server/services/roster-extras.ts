@@ -7,6 +7,8 @@ const PROVIDERS: Record<string, Provider> = {
   nextDue: clientIds => rosterNextDue(clientIds),
   samples: clientIds => sampleRosterStatus(clientIds),
   diary: clientIds => diaryRosterFigures(clientIds),
+  balance: clientIds => invoiceBalances(clientIds),
+  training: clientIds => trainingRosterStatus(clientIds),
 }
 
 export async function rosterExtras(clientIds: string[]): Promise<Map<string, Record<string, unknown>>> {

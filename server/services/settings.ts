@@ -7,7 +7,7 @@ import type { AuthUser } from '../utils/authz'
  * A business policy: the stored value merged over its defaults, validated by its shared zod schema. A stored
  * value that no longer validates (an older shape) falls back to the defaults rather than breaking pages.
  */
-export async function readSetting<T extends object>(key: string, schema: ZodType<T>, defaults: T, db: DbOrTx = useDb()): Promise<T> {
+export async function readSetting<T extends object>(key: string, schema: ZodType<T, any, any>, defaults: T, db: DbOrTx = useDb()): Promise<T> {
   const [row] = await db.select().from(businessSettings).where(eq(businessSettings.key, key)).limit(1)
   if (!row) return defaults
   const parsed = schema.safeParse({ ...defaults, ...row.value })

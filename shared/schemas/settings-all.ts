@@ -3,7 +3,9 @@ import type { SettingDefinition } from './settings'
 import { businessProfile } from './settings-business'
 import { samplePolicySetting } from './settings-samples'
 import { diaryPolicy } from './settings-diary'
+import { invoicePolicy } from './settings-invoices'
+import { trainingPolicy } from './settings-training'
 
-const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy]
+const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy, invoicePolicy, trainingPolicy]
 
 export const SETTINGS: Record<string, SettingDefinition<any>> = Object.fromEntries(ALL.map(d => [d.key, d]))

@@ -10,6 +10,8 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: '/admin/clients', heading: 'All clients' },
     { path: '/admin/trainers', heading: 'Trainers' },
     { path: '/admin/settings', heading: 'Policies' },
+    { path: '/admin/invoices', heading: 'Invoices' },
+    { path: '/admin/programme-templates', heading: 'Programme templates' },
   ] },
   { who: 'trainer', email: TRAINER_A, pages: [
     { path: '/trainer', heading: 'Your roster' },
@@ -17,6 +19,7 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: '/trainer/clients/new', heading: 'New client' },
     { path: `/trainer/clients/${CLIENT_A}/samples`, heading: 'Sample bank' },
     { path: `/trainer/clients/${CLIENT_A}/diary`, heading: /diary/i },
+    { path: `/trainer/clients/${CLIENT_A}/training`, heading: 'Training and reliability' },
   ] },
   { who: 'handler', email: HANDLER_A, pages: [
     { path: '/handler', heading: 'Ada Fairweather' },
@@ -24,6 +27,7 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: `/handler/samples/${CLIENT_A}`, heading: 'Our samples' },
     { path: `/handler/samples/${CLIENT_A}/collect`, heading: 'Collect a sample' },
     { path: `/handler/diary/${CLIENT_A}`, heading: /diary/i },
+    { path: '/handler/invoices', heading: 'Invoices and receipts' },
   ] },
 ]
 

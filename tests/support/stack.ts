@@ -8,6 +8,7 @@ import { randomBytes } from 'node:crypto'
 import { migrateDatabase, openDatabase, prepareDatabase } from '../../server/database/client'
 import { seedDemo } from '../../scripts/lib/seed-data'
 import { startFakeSmtp, type FakeSmtp } from '../../fake-services/smtp/server.mjs'
+import { startFakeStripe } from '../../fake-services/stripe/server.mjs'
 
 export const ROOT = resolve(import.meta.dirname, '../..')
 export const TEST_SESSION_PASSWORD = 'test-session-password-which-is-long-enough-1234'
@@ -63,6 +64,9 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
   const smtp = opts.startSmtp === false ? null : await startFakeSmtp({ smtpPort, httpPort: 0, quiet: true })
   const port = await freePort()
   const baseUrl = `http://127.0.0.1:${port}`
+  // The fake Stripe (fake-services/stripe), delivering signed webhooks to this server.
+  const stripeWebhookSecret = `whsec_test_${randomBytes(12).toString('hex')}`
+  const stripe = await startFakeStripe({ port: 0, webhookUrl: `${baseUrl}/api/webhooks/stripe`, webhookSecret: stripeWebhookSecret, quiet: true })
   const child: ChildProcess = spawn(process.execPath, [entry], {
     cwd: ROOT,
     env: {
@@ -76,6 +80,11 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       SMTP_HOST: '127.0.0.1',
       SMTP_PORT: String(smtpPort),
       APP_URL: baseUrl,
+      STRIPE_SECRET_KEY: 'sk_test_fake',
+      STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
+      STRIPE_API_HOST: '127.0.0.1',
+      STRIPE_API_PORT: String(stripe.port),
+      STRIPE_API_PROTOCOL: 'http',
       OUTBOX_INTERVAL_MS: '250',
       // The periodic sample-stock check looks every second (it only refreshes households whose status is stale).
       SAMPLE_CHECK_INTERVAL_MS: '1000',
@@ -107,6 +116,7 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       child.kill('SIGTERM')
       await new Promise(r => (child.exitCode !== null ? r(null) : child.once('exit', r)))
       await smtp?.close()
+      await stripe.close()
     },
   }
 }

@@ -1,0 +1,74 @@
+// The demo households' programme fees (used by seed-data.ts). Invented amounts: a deposit and monthly instalments,
+// some paid by bank transfer, one open and current, one overdue, one draft. Numbers run per year without gaps.
+import type { Database } from '../../server/database/client'
+import * as s from '../../server/database/schema'
+import { lineTotals } from '../../shared/utils/money'
+import { formatInvoiceNumber } from '../../shared/utils/invoices'
+
+type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
+
+/** The invoice tables, children before clients, for the seed's delete list. */
+export const INVOICE_TABLES_CHILD_FIRST = ['stripe_events', 'invoice_payments', 'invoice_lines', 'invoices', 'invoice_counters'] as const
+
+const DAY = 86_400_000
+// 20 %: the UK standard rate of VAT (GOV.UK, "VAT rates", from memory); the demo business is UK-registered.
+const UK_STANDARD_VAT_BP = 2000
+
+interface DemoInvoice {
+  key: string
+  client: string
+  issuedDaysAgo: number | null // null: a draft
+  dueInDays: number
+  lines: Array<{ description: string, unitMinor: number, quantity: number, taxRateBasisPoints: number }>
+  paidDaysAgo?: number
+}
+
+// Invented fees: deposit £600 + VAT, instalments £250 + VAT, an extra home visit £85 + VAT.
+const DEMO: DemoInvoice[] = [
+  { key: 'fair-deposit', client: 'fairweather', issuedDaysAgo: 140, dueInDays: 14, paidDaysAgo: 135, lines: [{ description: 'Programme deposit', unitMinor: 60000, quantity: 1, taxRateBasisPoints: UK_STANDARD_VAT_BP }] },
+  { key: 'fair-1', client: 'fairweather', issuedDaysAgo: 40, dueInDays: 14, paidDaysAgo: 30, lines: [{ description: 'Programme instalment 1 of 6', unitMinor: 25000, quantity: 1, taxRateBasisPoints: UK_STANDARD_VAT_BP }] },
+  { key: 'fair-2', client: 'fairweather', issuedDaysAgo: 6, dueInDays: 14, lines: [
+    { description: 'Programme instalment 2 of 6', unitMinor: 25000, quantity: 1, taxRateBasisPoints: UK_STANDARD_VAT_BP },
+    { description: 'Extra home visit', unitMinor: 8500, quantity: 1, taxRateBasisPoints: UK_STANDARD_VAT_BP },
+  ] },
+  { key: 'moreau-5', client: 'moreau', issuedDaysAgo: 50, dueInDays: 14, lines: [{ description: 'Programme instalment 5 of 6', unitMinor: 25000, quantity: 1, taxRateBasisPoints: UK_STANDARD_VAT_BP }] },
+  { key: 'acht-deposit', client: 'achterberg', issuedDaysAgo: 9, dueInDays: 14, lines: [{ description: 'Programme deposit', unitMinor: 60000, quantity: 1, taxRateBasisPoints: UK_STANDARD_VAT_BP }] },
+  { key: 'lind-visit', client: 'lindgren', issuedDaysAgo: null, dueInDays: 14, lines: [{ description: 'Extra home visit', unitMinor: 8500, quantity: 2, taxRateBasisPoints: UK_STANDARD_VAT_BP }] },
+]
+
+const isoDay = (d: Date) => d.toISOString().slice(0, 10)
+
+export async function seedInvoices(tx: Tx, today: Date, seedId: (name: string) => string) {
+  const seqByYear = new Map<number, number>()
+  const ordered = [...DEMO].sort((a, b) => (b.issuedDaysAgo ?? -1) - (a.issuedDaysAgo ?? -1))
+  for (const inv of ordered) {
+    const id = seedId(`invoice:${inv.key}`)
+    const totals = inv.lines.map(lineTotals)
+    const sum = (k: 'netMinor' | 'taxMinor' | 'grossMinor') => totals.reduce((a, t) => a + t[k], 0)
+    const issued = inv.issuedDaysAgo === null ? null : new Date(today.getTime() - inv.issuedDaysAgo * DAY)
+    let number: string | null = null, year: number | null = null, seq: number | null = null
+    if (issued) {
+      year = issued.getUTCFullYear()
+      seq = (seqByYear.get(year) ?? 0) + 1
+      seqByYear.set(year, seq)
+      number = formatInvoiceNumber('invoice', year, seq)
+    }
+    const paid = inv.paidDaysAgo !== undefined ? new Date(today.getTime() - inv.paidDaysAgo * DAY) : null
+    await tx.insert(s.invoices).values({
+      id, clientId: seedId(`client:${inv.client}`), kind: 'invoice', status: !issued ? 'draft' : paid ? 'paid' : 'open',
+      number, numberYear: year, numberSeq: seq, currency: 'GBP',
+      issueDate: issued ? isoDay(issued) : null, dueDate: issued ? isoDay(new Date(issued.getTime() + inv.dueInDays * DAY)) : null,
+      netMinor: sum('netMinor'), taxMinor: sum('taxMinor'), grossMinor: sum('grossMinor'), paidMinor: paid ? sum('grossMinor') : 0,
+      dueInDays: inv.dueInDays, createdById: seedId('user:admin'), issuedAt: issued, paidAt: paid,
+      createdAt: issued ?? today, updatedAt: paid ?? issued ?? today,
+    })
+    await tx.insert(s.invoiceLines).values(inv.lines.map((l, i) => ({ invoiceId: id, position: i + 1, ...l, ...totals[i]! })))
+    if (paid) {
+      await tx.insert(s.invoicePayments).values({
+        invoiceId: id, amountMinor: sum('grossMinor'), method: 'bank_transfer', reference: `Transfer ${number}`,
+        receivedOn: isoDay(paid), recordedById: seedId('user:admin'), createdAt: paid, updatedAt: paid,
+      })
+    }
+  }
+  for (const [year, lastSeq] of seqByYear) await tx.insert(s.invoiceCounters).values({ year, lastSeq })
+}

@@ -1,0 +1,77 @@
+// Invoices and credit notes, their lines, the per-year number sequence and payments recorded against them.
+import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
+import { INVOICE_KINDS, INVOICE_STATUSES } from '../../../shared/utils/invoices'
+import { clients, id, timestamps, users } from './core'
+
+export const invoices = sqliteTable('invoices', {
+  id: id(),
+  clientId: text('client_id').notNull().references(() => clients.id),
+  kind: text('kind', { enum: INVOICE_KINDS }).notNull().default('invoice'),
+  status: text('status', { enum: INVOICE_STATUSES }).notNull().default('draft'),
+  // Assigned when issued, from invoice_counters in the same transaction: no gaps, no duplicates.
+  number: text('number'),
+  numberYear: integer('number_year'),
+  numberSeq: integer('number_seq'),
+  currency: text('currency').notNull(),
+  issueDate: text('issue_date'), // YYYY-MM-DD in the business's time zone
+  dueDate: text('due_date'),
+  netMinor: integer('net_minor').notNull(),
+  taxMinor: integer('tax_minor').notNull(),
+  grossMinor: integer('gross_minor').notNull(),
+  paidMinor: integer('paid_minor').notNull().default(0),
+  dueInDays: integer('due_in_days').notNull(),
+  notes: text('notes'),
+  // A credit note points at the invoice it credits.
+  creditsInvoiceId: text('credits_invoice_id'),
+  createdById: text('created_by_id').references(() => users.id),
+  issuedAt: integer('issued_at', { mode: 'timestamp_ms' }),
+  paidAt: integer('paid_at', { mode: 'timestamp_ms' }),
+  voidedAt: integer('voided_at', { mode: 'timestamp_ms' }),
+  ...timestamps,
+}, t => [
+  uniqueIndex('invoices_number_uq').on(t.number),
+  uniqueIndex('invoices_year_seq_uq').on(t.numberYear, t.numberSeq),
+  index('invoices_client_idx').on(t.clientId, t.status),
+])
+
+export const invoiceLines = sqliteTable('invoice_lines', {
+  id: id(),
+  invoiceId: text('invoice_id').notNull().references(() => invoices.id, { onDelete: 'cascade' }),
+  position: integer('position').notNull(),
+  description: text('description').notNull(),
+  unitMinor: integer('unit_minor').notNull(),
+  quantity: integer('quantity').notNull(),
+  taxRateBasisPoints: integer('tax_rate_bp').notNull(),
+  netMinor: integer('net_minor').notNull(),
+  taxMinor: integer('tax_minor').notNull(),
+  grossMinor: integer('gross_minor').notNull(),
+}, t => [index('invoice_lines_invoice_idx').on(t.invoiceId, t.position)])
+
+/** The last number used per calendar year (one business per installation). */
+export const invoiceCounters = sqliteTable('invoice_counters', {
+  year: integer('year').primaryKey(),
+  lastSeq: integer('last_seq').notNull(),
+})
+
+export const PAYMENT_METHODS = ['bank_transfer', 'cash', 'card'] as const
+
+/** Money received against an invoice. A card payment carries its provider reference, unique, so it is never recorded twice. */
+export const invoicePayments = sqliteTable('invoice_payments', {
+  id: id(),
+  invoiceId: text('invoice_id').notNull().references(() => invoices.id),
+  amountMinor: integer('amount_minor').notNull(),
+  method: text('method', { enum: PAYMENT_METHODS }).notNull(),
+  reference: text('reference'),
+  receivedOn: text('received_on').notNull(), // YYYY-MM-DD
+  recordedById: text('recorded_by_id').references(() => users.id),
+  ...timestamps,
+}, t => [uniqueIndex('invoice_payments_reference_uq').on(t.method, t.reference), index('invoice_payments_invoice_idx').on(t.invoiceId)])
+
+/** Every Stripe event processed, by its id: a replayed or duplicated event is recognised and changes nothing. */
+export const stripeEvents = sqliteTable('stripe_events', {
+  id: text('id').primaryKey(),
+  type: text('type').notNull(),
+  invoiceId: text('invoice_id'),
+  outcome: text('outcome').notNull(),
+  receivedAt: integer('received_at', { mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
+})

@@ -1,0 +1,305 @@
+// Invoices: loading what a user may see, drafts, issuing with a gap-free number, credit notes, manual payments,
+// each change in one transaction with its audit entry and its e-mail (outbox).
+import type { H3Event } from 'h3'
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm'
+import { clientHandlers, clients, invoiceCounters, invoiceLines, invoicePayments, invoices, users } from '../database/schema'
+import type { InvoiceCreateInput, ManualPaymentInput } from '../../shared/schemas/invoices'
+import { businessProfile, businessProfileSchema, type BusinessProfile } from '../../shared/schemas/settings-business'
+import { INVOICE_POLICY_DEFAULTS, INVOICE_POLICY_KEY, invoicePolicySchema, type InvoicePolicy } from '../../shared/schemas/settings-invoices'
+import { formatMoney, lineTotals, minorUnits } from '../../shared/utils/money'
+import {
+  addDays, balanceDue, canCredit, canIssue, canVoid, creditLines, formatInvoiceNumber, invoiceTotalsForIssue, shownState,
+  type StoredLine,
+} from '../../shared/utils/invoices'
+import { todayInTimeZone } from '../../shared/utils/dogs'
+import type { AuthUser } from '../utils/authz'
+import type { DbOrTx, Tx } from '../utils/db'
+
+export type InvoiceRow = typeof invoices.$inferSelect
+type ClientRow = typeof clients.$inferSelect
+
+export async function readInvoiceSettings(db: DbOrTx = useDb()): Promise<{ business: BusinessProfile, policy: InvoicePolicy }> {
+  const [business, policy] = await Promise.all([
+    readSetting('business', businessProfileSchema, businessProfile.defaults as BusinessProfile, db),
+    readSetting(INVOICE_POLICY_KEY, invoicePolicySchema, INVOICE_POLICY_DEFAULTS, db),
+  ])
+  return { business, policy }
+}
+
+// libSQL's local driver waits for SQLite's write lock synchronously, which blocks this process's event loop: two of
+// our own write transactions at once would wait on each other until the busy timeout. Queue them in-process instead;
+// other processes are still serialised by SQLite's lock.
+let invoiceWriteChain: Promise<unknown> = Promise.resolve()
+function invoiceWrite<T>(fn: (tx: Tx) => Promise<T>): Promise<T> {
+  const run = invoiceWriteChain.then(() => useDb().transaction(fn))
+  invoiceWriteChain = run.catch(() => undefined)
+  return run
+}
+
+function invoiceConflict(message: string): never {
+  throw createError({ statusCode: 409, statusMessage: 'Conflict', message })
+}
+function invoiceRuleError(fieldErrors: Record<string, string>): never {
+  throw createError({ statusCode: 422, statusMessage: 'Unprocessable Content', message: Object.values(fieldErrors).join(' '), data: { fieldErrors } })
+}
+
+/** Loads an invoice whose client the user may see, or answers 404 (the same for "does not exist" and "not yours"). */
+export async function requireInvoiceAccess(event: H3Event, invoiceId: string, opts: { admin?: boolean } = {}) {
+  const user = requireUser(event)
+  const [row] = await useDb().select({ invoice: invoices, client: clients }).from(invoices)
+    .innerJoin(clients, eq(clients.id, invoices.clientId))
+    .where(and(eq(invoices.id, invoiceId), clientScope(user))).limit(1)
+  if (!row) notFound('invoice')
+  // A household only ever sees issued documents; drafts are the office's.
+  if (user.role === 'handler' && row.invoice.status === 'draft') notFound('invoice')
+  if (opts.admin && user.role !== 'admin') {
+    throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'Only the office can change invoices.' })
+  }
+  return { user, invoice: row.invoice, client: row.client }
+}
+
+function present(inv: InvoiceRow, today: string, householdName?: string) {
+  return {
+    ...inv,
+    householdName,
+    state: shownState(inv.status, inv.dueDate, today),
+    balanceMinor: inv.kind === 'invoice' && inv.status === 'open' ? balanceDue(inv.grossMinor, inv.paidMinor) : 0,
+  }
+}
+
+/** Invoices the user may see, newest first, with the shown state and what is still owed. */
+export async function listInvoices(user: AuthUser, query: { status?: string, clientId?: string }) {
+  const db = useDb()
+  const { business } = await readInvoiceSettings(db)
+  const today = todayInTimeZone(business.timeZone)
+  const where = and(
+    clientScope(user),
+    user.role === 'handler' ? sql`${invoices.status} <> 'draft'` : undefined,
+    query.clientId ? eq(invoices.clientId, query.clientId) : undefined,
+    query.status && query.status !== 'overdue' ? eq(invoices.status, query.status as InvoiceRow['status']) : undefined,
+    query.status === 'overdue' ? and(eq(invoices.status, 'open'), sql`${invoices.dueDate} < ${today}`) : undefined,
+  )
+  const rows = await db.select({ invoice: invoices, householdName: clients.householdName }).from(invoices)
+    .innerJoin(clients, eq(clients.id, invoices.clientId)).where(where)
+    .orderBy(desc(invoices.createdAt), desc(invoices.id)).limit(500)
+  const shown = rows.map(r => present(r.invoice, today, r.householdName))
+  const owed: Record<string, number> = {}
+  for (const r of shown) if (r.balanceMinor > 0) owed[r.currency] = (owed[r.currency] ?? 0) + r.balanceMinor
+  return { rows: shown, owed, today, locale: business.locale }
+}
+
+/** One invoice with its lines, payments, credit notes and what the page needs to print it. */
+export async function getInvoiceDetail(user: AuthUser, invoice: InvoiceRow, client: ClientRow) {
+  const db = useDb()
+  const [{ business, policy }, lines, payments, credits] = await Promise.all([
+    readInvoiceSettings(db),
+    db.select().from(invoiceLines).where(eq(invoiceLines.invoiceId, invoice.id)).orderBy(asc(invoiceLines.position)),
+    db.select().from(invoicePayments).where(eq(invoicePayments.invoiceId, invoice.id)).orderBy(asc(invoicePayments.createdAt)),
+    db.select({ id: invoices.id, number: invoices.number, status: invoices.status, grossMinor: invoices.grossMinor, creditsInvoiceId: invoices.creditsInvoiceId })
+      .from(invoices).where(sql`${invoices.creditsInvoiceId} = ${invoice.id} OR ${invoices.id} = ${invoice.creditsInvoiceId ?? ''}`),
+  ])
+  const today = todayInTimeZone(business.timeZone)
+  return {
+    ...present(invoice, today, client.householdName),
+    personName: client.personName,
+    lines,
+    payments: payments.map(p => ({ ...p, recordedById: user.role === 'handler' ? null : p.recordedById })),
+    related: credits,
+    business: { name: business.name, locale: business.locale, taxNumber: policy.taxNumber, footer: policy.footer },
+    canChange: user.role === 'admin',
+  }
+}
+
+/** A draft invoice for a client, with its lines priced and taxed per line. */
+export async function createInvoiceDraft(user: AuthUser, client: ClientRow, input: InvoiceCreateInput) {
+  const { business, policy } = await readInvoiceSettings()
+  const currency = input.currency ?? business.currency
+  try { minorUnits(currency) }
+  catch (e) { invoiceRuleError({ currency: (e as Error).message }) }
+  let totals
+  try { totals = invoiceTotalsForIssue(input.lines, 'invoice') }
+  catch (e) { invoiceRuleError({ lines: (e as Error).message }) }
+  return invoiceWrite(async (tx) => {
+    const [inv] = await tx.insert(invoices).values({
+      clientId: client.id, kind: 'invoice', status: 'draft', currency,
+      netMinor: totals.netMinor, taxMinor: totals.taxMinor, grossMinor: totals.grossMinor,
+      dueInDays: input.dueInDays ?? policy.paymentTermsDays, notes: input.notes, createdById: user.id,
+    }).returning()
+    await insertLines(tx, inv!.id, input.lines)
+    await logAudit(tx, {
+      actorId: user.id, action: 'invoice.drafted', entityType: 'invoice', entityId: inv!.id, clientId: client.id,
+      data: { name: `Draft invoice for ${client.householdName}`, grossMinor: totals.grossMinor, currency },
+    })
+    return inv!
+  })
+}
+
+async function insertLines(tx: Tx, invoiceId: string, lines: readonly StoredLine[]) {
+  await tx.insert(invoiceLines).values(lines.map((l, i) => ({
+    invoiceId, position: i + 1, description: l.description, unitMinor: l.unitMinor, quantity: l.quantity,
+    taxRateBasisPoints: l.taxRateBasisPoints, ...lineTotals(l),
+  })))
+}
+
+/** The next number of the year, inside the caller's transaction: rolled back with it, so no gap is ever left. */
+async function nextInvoiceSeq(tx: Tx, year: number): Promise<number> {
+  const [row] = await tx.insert(invoiceCounters).values({ year, lastSeq: 1 })
+    .onConflictDoUpdate({ target: invoiceCounters.year, set: { lastSeq: sql`${invoiceCounters.lastSeq} + 1` } })
+    .returning({ seq: invoiceCounters.lastSeq })
+  return row!.seq
+}
+
+async function householdEmails(tx: DbOrTx, clientId: string) {
+  const rows = await tx.select({ email: users.email, name: users.name }).from(clientHandlers)
+    .innerJoin(users, eq(users.id, clientHandlers.userId)).where(eq(clientHandlers.clientId, clientId))
+  return rows
+}
+
+/** Draft → open: numbers the invoice, dates it, and e-mails the household. */
+export async function issueInvoice(user: AuthUser, invoice: InvoiceRow, client: ClientRow) {
+  if (!canIssue(invoice.status)) invoiceConflict(`This invoice is ${invoice.status}; only a draft can be issued.`)
+  const { business } = await readInvoiceSettings()
+  const issueDate = todayInTimeZone(business.timeZone)
+  const year = Number(issueDate.slice(0, 4))
+  return invoiceWrite(async (tx) => {
+    const seq = await nextInvoiceSeq(tx, year)
+    const number = formatInvoiceNumber('invoice', year, seq)
+    const [row] = await tx.update(invoices).set({
+      status: 'open', number, numberYear: year, numberSeq: seq, issueDate, dueDate: addDays(issueDate, invoice.dueInDays), issuedAt: new Date(),
+    }).where(and(eq(invoices.id, invoice.id), eq(invoices.status, 'draft'))).returning()
+    // Someone else issued or voided it first: roll the number back with the transaction.
+    if (!row) invoiceConflict('This invoice was changed by someone else just now. Reload and try again.')
+    for (const h of await householdEmails(tx, client.id)) {
+      await queueEmail(tx, {
+        to: h.email, dedupeKey: `invoice-issued:${row.id}:${h.email}`,
+        ...composeEmail({
+          subject: `Invoice ${number} from ${business.name}`,
+          greeting: `Hello ${h.name},`,
+          paragraphs: [
+            `Invoice ${number} for ${formatMoney(row.grossMinor, row.currency, business.locale)} is ready. It is due on ${row.dueDate}.`,
+            'You can see it and pay by card on your invoices page.',
+          ],
+          action: { label: 'See the invoice', url: appUrl(`/handler/invoices/${row.id}`) },
+        }),
+      })
+    }
+    await logAudit(tx, {
+      actorId: user.id, action: 'invoice.issued', entityType: 'invoice', entityId: row.id, clientId: client.id,
+      data: { name: `Invoice ${number}`, grossMinor: row.grossMinor, currency: row.currency },
+    })
+    return row
+  })
+}
+
+/** Discards a draft (it never had a number, so no gap is left). Issued invoices are corrected by a credit note. */
+export async function voidDraftInvoice(user: AuthUser, invoice: InvoiceRow) {
+  if (!canVoid(invoice.status)) invoiceConflict(`This invoice is ${invoice.status}. An issued invoice is corrected with a credit note, not voided.`)
+  return invoiceWrite(async (tx) => {
+    const [row] = await tx.update(invoices).set({ status: 'void', voidedAt: new Date() })
+      .where(and(eq(invoices.id, invoice.id), eq(invoices.status, 'draft'))).returning()
+    if (!row) invoiceConflict('This invoice was changed by someone else just now. Reload and try again.')
+    await logAudit(tx, { actorId: user.id, action: 'invoice.voided', entityType: 'invoice', entityId: row.id, clientId: row.clientId, data: { name: 'Draft invoice discarded' } })
+    return row
+  })
+}
+
+/**
+ * Credits a whole issued invoice. An unpaid one becomes void and its credit note is applied against it; a paid one
+ * keeps its payment and the credit note stays open as a refund owed to the household.
+ */
+export async function creditInvoice(user: AuthUser, invoice: InvoiceRow, client: ClientRow, reason: string) {
+  if (!canCredit(invoice.kind, invoice.status)) invoiceConflict(`This ${invoice.kind === 'invoice' ? `invoice is ${invoice.status}` : 'is a credit note'}; only an open or paid invoice can be credited.`)
+  if (invoice.status === 'open' && invoice.paidMinor > 0) invoiceConflict('This invoice is part paid. Record the rest of the payment first, then credit it.')
+  const { business } = await readInvoiceSettings()
+  const issueDate = todayInTimeZone(business.timeZone)
+  const year = Number(issueDate.slice(0, 4))
+  return invoiceWrite(async (tx) => {
+    const lines = await tx.select().from(invoiceLines).where(eq(invoiceLines.invoiceId, invoice.id)).orderBy(asc(invoiceLines.position))
+    const credit = creditLines(lines)
+    const totals = invoiceTotalsForIssue(credit, 'credit_note')
+    const already = await tx.select({ id: invoices.id }).from(invoices).where(eq(invoices.creditsInvoiceId, invoice.id)).limit(1)
+    if (already.length) invoiceConflict('This invoice already has a credit note.')
+    const wasOpen = invoice.status === 'open'
+    if (wasOpen) {
+      const [voided] = await tx.update(invoices).set({ status: 'void', voidedAt: new Date() })
+        .where(and(eq(invoices.id, invoice.id), eq(invoices.status, 'open'), eq(invoices.paidMinor, 0))).returning()
+      if (!voided) invoiceConflict('This invoice was changed by someone else just now. Reload and try again.')
+    }
+    const seq = await nextInvoiceSeq(tx, year)
+    const number = formatInvoiceNumber('credit_note', year, seq)
+    const [note] = await tx.insert(invoices).values({
+      clientId: client.id, kind: 'credit_note', status: wasOpen ? 'paid' : 'open', currency: invoice.currency,
+      number, numberYear: year, numberSeq: seq, issueDate, dueDate: issueDate, dueInDays: 0,
+      netMinor: totals.netMinor, taxMinor: totals.taxMinor, grossMinor: totals.grossMinor,
+      notes: reason, creditsInvoiceId: invoice.id, createdById: user.id, issuedAt: new Date(), paidAt: wasOpen ? new Date() : null,
+    }).returning()
+    await insertLines(tx, note!.id, credit)
+    await logAudit(tx, {
+      actorId: user.id, action: 'invoice.credited', entityType: 'invoice', entityId: invoice.id, clientId: client.id,
+      data: { name: `Credit note ${number} for invoice ${invoice.number}`, creditNoteId: note!.id, reason },
+    })
+    return note!
+  })
+}
+
+/** Money received outside the card flow (bank transfer, cash): never more than is owed; a receipt goes out. */
+export async function recordManualPayment(user: AuthUser, invoice: InvoiceRow, client: ClientRow, input: ManualPaymentInput) {
+  if (invoice.kind !== 'invoice' || invoice.status !== 'open') invoiceConflict(`This ${invoice.kind === 'invoice' ? `invoice is ${invoice.status}` : 'is a credit note'}; payments are recorded only against an open invoice.`)
+  const owed = balanceDue(invoice.grossMinor, invoice.paidMinor)
+  if (input.amountMinor > owed) invoiceRuleError({ amountMinor: `That is more than is owed (${formatMoney(owed, invoice.currency)}).` })
+  return invoiceWrite(async (tx) => {
+    const paidMinor = invoice.paidMinor + input.amountMinor
+    const full = paidMinor === invoice.grossMinor
+    // Guarded on the amount read before: a concurrent payment makes this update match nothing.
+    const [row] = await tx.update(invoices).set({ paidMinor, status: full ? 'paid' : 'open', paidAt: full ? new Date() : null })
+      .where(and(eq(invoices.id, invoice.id), eq(invoices.status, 'open'), eq(invoices.paidMinor, invoice.paidMinor))).returning()
+    if (!row) invoiceConflict('This invoice was changed by someone else just now. Reload and try again.')
+    const [payment] = await tx.insert(invoicePayments).values({
+      invoiceId: invoice.id, amountMinor: input.amountMinor, method: input.method, reference: input.reference,
+      receivedOn: input.receivedOn, recordedById: user.id,
+    }).returning()
+    await queueInvoiceReceipt(tx, row, client, payment!)
+    await logAudit(tx, {
+      actorId: user.id, action: 'invoice.payment-recorded', entityType: 'invoice', entityId: invoice.id, clientId: client.id,
+      data: { name: `Payment on ${invoice.number}`, amountMinor: input.amountMinor, method: input.method },
+    })
+    return { invoice: row, payment: payment! }
+  })
+}
+
+/** The receipt e-mail for one payment, once (keyed on the payment). */
+export async function queueInvoiceReceipt(tx: Tx, invoice: InvoiceRow, client: ClientRow, payment: typeof invoicePayments.$inferSelect) {
+  const { business } = await readInvoiceSettings(tx)
+  const amount = formatMoney(payment.amountMinor, invoice.currency, business.locale)
+  const left = balanceDue(invoice.grossMinor, invoice.paidMinor)
+  for (const h of await householdEmails(tx, client.id)) {
+    await queueEmail(tx, {
+      to: h.email, dedupeKey: `invoice-receipt:${payment.id}:${h.email}`,
+      ...composeEmail({
+        subject: `Receipt for ${amount} — invoice ${invoice.number}`,
+        greeting: `Hello ${h.name},`,
+        paragraphs: [
+          `Thank you: we received ${amount} on ${payment.receivedOn} against invoice ${invoice.number}.`,
+          left > 0 ? `${formatMoney(left, invoice.currency, business.locale)} is still to pay on this invoice.` : 'This invoice is now paid in full.',
+        ],
+        action: { label: 'See your invoices', url: appUrl(`/handler/invoices/${invoice.id}`) },
+      }),
+    })
+  }
+}
+
+/** The roster column: what each client owes on open invoices, one query for the whole page. */
+export async function invoiceBalances(clientIds: string[]) {
+  const out = new Map<string, { owedMinor: number, currency: string, overdue: boolean }>()
+  if (!clientIds.length) return out
+  const { business } = await readInvoiceSettings()
+  const today = todayInTimeZone(business.timeZone)
+  const rows = await useDb().select({
+    clientId: invoices.clientId, currency: invoices.currency,
+    owed: sql<number>`sum(${invoices.grossMinor} - ${invoices.paidMinor})`,
+    overdue: sql<number>`max(case when ${invoices.dueDate} < ${today} then 1 else 0 end)`,
+  }).from(invoices).where(and(inArray(invoices.clientId, clientIds), eq(invoices.status, 'open'), eq(invoices.kind, 'invoice')))
+    .groupBy(invoices.clientId, invoices.currency)
+  for (const r of rows) out.set(r.clientId, { owedMinor: Number(r.owed), currency: r.currency, overdue: Number(r.overdue) === 1 })
+  return out
+}

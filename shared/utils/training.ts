@@ -1,0 +1,167 @@
+// Programme milestones and their readiness criteria: the default programme, and the pure check of whether a dog's
+// recent, measured trials meet a milestone's criteria (with what is still needed). No database, no HTTP.
+import { scoreTrials, type ProportionInterval, type Trial, type TrialScore } from './stats'
+
+export const SESSION_RUNNERS = ['trainer', 'handler'] as const
+export type SessionRunner = (typeof SESSION_RUNNERS)[number]
+
+/** Measured criteria a milestone may carry. Shares are whole percent (0..100). */
+export interface ReadinessCriteria {
+  /** Only trials in sessions of the last `windowDays` days count (a rolling window). */
+  windowDays: number
+  minTrials: number
+  minSessions: number
+  minDays: number
+  /** At least this share of the counted trials ran blind (the person handling the dog did not know where the target was). */
+  minBlindPercent: number
+  /** The lower Wilson bound of sensitivity / specificity must be at or above these. */
+  minSensitivityLowerPercent: number
+  minSpecificityLowerPercent: number
+}
+
+export const CRITERIA_KEYS = ['windowDays', 'minTrials', 'minSessions', 'minDays', 'minBlindPercent', 'minSensitivityLowerPercent', 'minSpecificityLowerPercent'] as const
+
+export interface MilestoneTemplateItem {
+  name: string
+  handlerText: string
+  /** Whether the milestone is reached on measured trials (it then uses the business's default criteria). */
+  measured: boolean
+}
+
+/**
+ * The default programme (common practice: the usual stages of a scent-alert programme). Each text is what the
+ * handler reads; the dog's reliability stages are measured.
+ */
+export const DEFAULT_PROGRAMME: { name: string, milestones: MilestoneTemplateItem[] } = {
+  name: 'Standard scent-alert programme',
+  milestones: [
+    { name: 'Intake and suitability', measured: false, handlerText: 'Your trainer has met you and your dog and judged the dog suited to scent work: health, temperament and motivation.' },
+    { name: 'Sample bank ready', measured: false, handlerText: 'There are enough target and control samples in the freezer, collected to the protocol, to start scent training.' },
+    { name: 'Imprinting', measured: false, handlerText: 'Your dog has learned that the target scent pays: it goes straight to it when it is offered alone.' },
+    { name: 'Discrimination', measured: true, handlerText: 'Your dog picks the target sample out of a line-up of controls and ignores line-ups with no target.' },
+    { name: 'Trained alert behaviour', measured: true, handlerText: 'Your dog gives its trained alert (the agreed nudge, paw or sit) clearly on the target, and not otherwise.' },
+    { name: 'Generalisation to new places and distractions', measured: true, handlerText: 'Your dog finds the target just as reliably in new places, with people, noise and food around.' },
+    { name: 'Real-life alerts', measured: false, handlerText: 'Your dog alerts to real episodes at home, and you log them in the diary so the trainer can check the timing.' },
+    { name: 'Public access readiness', measured: false, handlerText: 'Your dog is calm, clean and under control in public places, as local law on assistance dogs expects.' },
+    { name: 'Placement', measured: false, handlerText: 'Your dog is placed with you as your working alert dog.' },
+    { name: 'Aftercare and yearly re-check', measured: false, handlerText: 'Your trainer checks in regularly and re-tests the dog\'s reliability once a year.' },
+  ],
+}
+
+// The business's default criteria (settings-training.ts): each figure is common practice for a trainer's sign-off,
+// not a clinical standard. With 95% Wilson bounds, 30 target trials all hits give a lower bound of about 88.6%.
+export const DEFAULT_CRITERIA: ReadinessCriteria = {
+  windowDays: 60, // common practice: the dog as it is now, roughly the last two months
+  minTrials: 40, // common practice
+  minSessions: 6, // common practice
+  minDays: 4, // common practice: not all on one good day
+  minBlindPercent: 50, // common practice: at least half blind, so the handler cannot cue the dog
+  minSensitivityLowerPercent: 80, // common practice
+  minSpecificityLowerPercent: 80, // common practice
+}
+
+/** Criteria a trainer sets for a client may only be as strict or stricter than the business's defaults. */
+export function loosenedCriteria(defaults: ReadinessCriteria, proposed: ReadinessCriteria): (keyof ReadinessCriteria)[] {
+  const loose: (keyof ReadinessCriteria)[] = []
+  if (proposed.windowDays > defaults.windowDays) loose.push('windowDays')
+  for (const key of CRITERIA_KEYS) {
+    if (key !== 'windowDays' && proposed[key] < defaults[key]) loose.push(key)
+  }
+  return loose
+}
+
+export interface SessionForReadiness {
+  day: string // YYYY-MM-DD
+  blind: boolean
+  trials: Trial[]
+}
+
+export interface CriterionResult {
+  key: 'trials' | 'sessions' | 'days' | 'blind' | 'sensitivity' | 'specificity'
+  label: string
+  met: boolean
+  /** The figure behind it, in words. */
+  actual: string
+  /** What is still needed, in words; null when met. */
+  stillNeeded: string | null
+}
+
+export interface Readiness {
+  from: string
+  to: string
+  criteria: CriterionResult[]
+  allMet: boolean
+  score: TrialScore
+  blindTrials: number
+}
+
+const DAY_MS = 86_400_000
+const pct = (x: number) => `${Math.round(x * 1000) / 10}%`
+const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
+
+/** The first day (YYYY-MM-DD) of a rolling window of `days` days ending on `today` (inclusive). */
+export function windowStart(today: string, days: number): string {
+  return new Date(Date.parse(`${today}T00:00:00Z`) - (days - 1) * DAY_MS).toISOString().slice(0, 10)
+}
+
+function boundCriterion(key: 'sensitivity' | 'specificity', interval: ProportionInterval | null, minPercent: number, label: string, denominatorNoun: string): CriterionResult {
+  const threshold = minPercent / 100
+  if (!interval) {
+    return { key, label, met: minPercent <= 0, actual: `No ${denominatorNoun} yet`, stillNeeded: minPercent <= 0 ? null : `Run ${denominatorNoun} to measure it` }
+  }
+  // Small tolerance so 80.0% shown is not refused for 0.7999999999.
+  const met = interval.lower >= threshold - 1e-9
+  return {
+    key, label, met,
+    actual: `${pct(interval.estimate)} (95% range ${pct(interval.lower)}–${pct(interval.upper)})`,
+    stillNeeded: met ? null : `Lower end ${pct(interval.lower)} must reach ${minPercent}%: more ${denominatorNoun} with correct responses`,
+  }
+}
+
+/**
+ * Evaluates a milestone's criteria over the sessions of the rolling window ending on `today` (sessions outside
+ * the window are ignored). Sensitivity and specificity follow scoreTrials (shared/utils/stats.ts); "blind" counts
+ * the trials of sessions run blind.
+ */
+export function evaluateReadiness(criteria: ReadinessCriteria, sessions: readonly SessionForReadiness[], today: string, confidence = 0.95): Readiness {
+  const from = windowStart(today, criteria.windowDays)
+  const inWindow = sessions.filter(s => s.day >= from && s.day <= today)
+  const trials = inWindow.flatMap(s => s.trials)
+  const withTrials = inWindow.filter(s => s.trials.length > 0)
+  const days = new Set(withTrials.map(s => s.day)).size
+  const blindTrials = inWindow.filter(s => s.blind).reduce((n, s) => n + s.trials.length, 0)
+  const score = scoreTrials(trials, confidence)
+  const n = trials.length
+
+  const results: CriterionResult[] = []
+  results.push({
+    key: 'trials', label: `At least ${plural(criteria.minTrials, 'trial')}`, met: n >= criteria.minTrials,
+    actual: plural(n, 'trial'), stillNeeded: n >= criteria.minTrials ? null : `${plural(criteria.minTrials - n, 'more trial')}`,
+  })
+  results.push({
+    key: 'sessions', label: `Over at least ${plural(criteria.minSessions, 'session')}`, met: withTrials.length >= criteria.minSessions,
+    actual: plural(withTrials.length, 'session'), stillNeeded: withTrials.length >= criteria.minSessions ? null : `${plural(criteria.minSessions - withTrials.length, 'more session')}`,
+  })
+  results.push({
+    key: 'days', label: `On at least ${plural(criteria.minDays, 'different day')}`, met: days >= criteria.minDays,
+    actual: plural(days, 'day'), stillNeeded: days >= criteria.minDays ? null : `Sessions on ${plural(criteria.minDays - days, 'more day')}`,
+  })
+  // Blind trials needed so that blind / max(n, minTrials) reaches the share.
+  const blindTarget = Math.ceil((criteria.minBlindPercent / 100) * Math.max(n, criteria.minTrials) - 1e-9)
+  const blindMet = n > 0 ? blindTrials >= blindTarget : criteria.minBlindPercent <= 0
+  results.push({
+    key: 'blind', label: `At least ${criteria.minBlindPercent}% of them blind`, met: blindMet,
+    actual: n ? `${plural(blindTrials, 'blind trial')} of ${n} (${pct(blindTrials / n)})` : 'No trials yet',
+    stillNeeded: blindMet ? null : `${plural(Math.max(1, blindTarget - blindTrials), 'more blind trial')}`,
+  })
+  results.push(boundCriterion('sensitivity', score.sensitivity, criteria.minSensitivityLowerPercent, `Finds the target: lower bound at least ${criteria.minSensitivityLowerPercent}%`, 'trials with a target'))
+  results.push(boundCriterion('specificity', score.specificity, criteria.minSpecificityLowerPercent, `Stays quiet on blanks: lower bound at least ${criteria.minSpecificityLowerPercent}%`, 'blank trials'))
+  return { from, to: today, criteria: results, allMet: results.every(r => r.met), score, blindTrials }
+}
+
+/** Plain words for a proportion and its interval, for handlers and printed reports. */
+export function intervalInWords(interval: ProportionInterval | null, what: string): string {
+  if (!interval) return `Not measured yet: no ${what}.`
+  return `${pct(interval.estimate)} — with the trials so far, the true figure most likely lies between ${pct(interval.lower)} and ${pct(interval.upper)}.`
+}
+

@@ -1,0 +1,45 @@
+import { seedId } from '../../../scripts/lib/seed-data'
+import { CLIENT_A } from '../../support/people'
+import { adminOnly, clientA, expect, signedIn, type Row } from '../../support/authz'
+import type { Agent } from '../../support/http'
+
+// Seeded: client A's open instalment invoice (issued, so its household sees it).
+const OPEN_A = seedId('invoice:fair-2')
+
+async function draftForA(admin: Agent) {
+  const res = await admin.post(`/api/clients/${CLIENT_A}/invoices`, { lines: [{ description: 'Extra session', unitMinor: 4500, quantity: 1, taxRateBasisPoints: 2000 }] })
+  if (res.status !== 201) throw new Error(`Could not draft an invoice: ${res.status} ${JSON.stringify(res.body)}`)
+  return { id: res.body.id as string }
+}
+
+export const rows: Row[] = [
+  {
+    route: 'GET /api/invoices', path: '/api/invoices',
+    expect: {
+      ...signedIn(200),
+      // Each household sees only its own issued invoices; a trainer only their clients'.
+      handlerA: { status: 200, check: (r) => { expect(r.body.rows.length).toBeGreaterThan(0); expect(r.body.rows.every((x: any) => x.householdName === 'Fairweather household' && x.status !== 'draft')).toBe(true) } },
+      handlerB: { status: 200, check: r => expect(r.body.rows.every((x: any) => x.householdName === 'Achterberg household')).toBe(true) },
+      trainerB: { status: 200, check: r => expect(r.body.rows.some((x: any) => x.householdName === 'Fairweather household')).toBe(false) },
+    },
+  },
+  { route: 'GET /api/invoices/[id]', path: `/api/invoices/${OPEN_A}`, expect: clientA(200) },
+  { route: 'POST /api/clients/[id]/invoices', path: `/api/clients/${CLIENT_A}/invoices`, body: { lines: [{ description: 'Extra session', unitMinor: 4500, quantity: 1, taxRateBasisPoints: 0 }] }, mutates: true, expect: adminOnly(201) },
+  { route: 'POST /api/invoices/[id]/issue', path: (_a, ctx) => `/api/invoices/${ctx.id}/issue`, prepare: draftForA, mutates: true, expect: adminOnly(200) },
+  { route: 'POST /api/invoices/[id]/void', path: (_a, ctx) => `/api/invoices/${ctx.id}/void`, prepare: draftForA, mutates: true, expect: adminOnly(200) },
+  { route: 'POST /api/invoices/[id]/credit-note', path: `/api/invoices/${OPEN_A}/credit-note`, body: { reason: 'Visit cancelled by us.' }, mutates: true, expect: adminOnly(201) },
+  { route: 'POST /api/invoices/[id]/payments', path: `/api/invoices/${OPEN_A}/payments`, body: { amountMinor: 1000, method: 'cash', receivedOn: '2026-01-05' }, mutates: true, expect: adminOnly(201) },
+]
+
+// Card payments: the household and the office start a checkout; the trainer does not take money.
+rows.push(
+  { route: 'POST /api/invoices/[id]/checkout', path: `/api/invoices/${OPEN_A}/checkout`, expect: { ...clientA(200), trainerA: 403 } },
+  // Stripe's webhook has no session: every caller without a valid signature is refused alike.
+  { route: 'POST /api/webhooks/stripe', path: '/api/webhooks/stripe', body: { id: 'evt_forged', type: 'checkout.session.completed' }, expect: { anonymous: 400, handlerA: 400, handlerB: 400, trainerA: 400, trainerB: 400, admin: 400 } },
+)
+
+// The PDF: the household, its trainer and the office; nobody else.
+rows.push({
+  route: 'GET /api/invoices/[id]/pdf', path: `/api/invoices/${OPEN_A}/pdf`,
+  expect: { ...clientA(200), handlerA: { status: 200, check: r => expect(String(r.headers.get('content-type'))).toContain('application/pdf') } },
+})
