@@ -26,14 +26,10 @@ export async function readInvoiceSettings(db: DbOrTx = useDb()): Promise<{ busin
   return { business, policy }
 }
 
-// libSQL's local driver waits for SQLite's write lock synchronously, which blocks this process's event loop: two of
-// our own write transactions at once would wait on each other until the busy timeout. Queue them in-process instead;
-// other processes are still serialised by SQLite's lock.
-let invoiceWriteChain: Promise<unknown> = Promise.resolve()
+// Concurrent writes in one process are queued by the database client itself (serialiseWrites in
+// server/database/client.ts), so invoice numbering needs nothing more than its transaction.
 function invoiceWrite<T>(fn: (tx: Tx) => Promise<T>): Promise<T> {
-  const run = invoiceWriteChain.then(() => useDb().transaction(fn))
-  invoiceWriteChain = run.catch(() => undefined)
-  return run
+  return useDb().transaction(fn)
 }
 
 function invoiceConflict(message: string): never {

@@ -11,10 +11,11 @@ export async function rosterNextDue(clientIds: string[], timeZone = 'Europe/Lond
     doneOn: dogHealthRecords.doneOn, dueOn: dogHealthRecords.dueOn, clientId: dogs.clientId, dogName: dogs.name,
   }).from(dogHealthRecords).innerJoin(dogs, eq(dogs.id, dogHealthRecords.dogId)).where(inArray(dogs.clientId, clientIds))
   const byDog = healthSummary(rows, todayInTimeZone(timeZone))
+  const dogOf = new Map(rows.map(r => [r.dogId, r]))
   const out = new Map<string, RosterNextDue>()
   for (const [dogId, sum] of Object.entries(byDog)) {
     if (!sum.next) continue
-    const dog = rows.find(r => r.dogId === dogId)!
+    const dog = dogOf.get(dogId)!
     const cur = out.get(dog.clientId)
     if (!cur || sum.next.dueOn < cur.dueOn) {
       out.set(dog.clientId, { state: cur ? worstDueState([cur.state, sum.state]) : sum.state, name: sum.next.name, dueOn: sum.next.dueOn, dogName: dog.dogName })
