@@ -388,3 +388,34 @@ describe('cross-site requests', () => {
     expect(wrong.status).toBe(401)
   })
 })
+
+describe('throttling guesses', () => {
+  it('refuses the 11th failed sign-in for one e-mail within 15 minutes with 429 and Retry-After', async () => {
+    const email = freshEmail('guess')
+    for (let i = 0; i < 10; i++) {
+      const res = await new Agent(baseUrl).post('/api/auth/login', { email, password: `wrong-guess-${i}` })
+      expect(res.status).toBe(401)
+    }
+    const blocked = await new Agent(baseUrl).post('/api/auth/login', { email, password: 'wrong-guess-10' })
+    expect(blocked.status).toBe(429)
+    expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+    expect(blocked.body.message).toMatch(/Too many failed sign-ins\. .*wait \d+ minutes/)
+  })
+
+  it('a successful sign-in forgets the earlier failures of that e-mail', async () => {
+    for (let round = 0; round < 2; round++) {
+      for (let i = 0; i < 9; i++) {
+        expect((await new Agent(baseUrl).post('/api/auth/login', { email: TRAINER_3, password: 'not-it-at-all' })).status).toBe(401)
+      }
+      expect((await (await signIn(baseUrl, TRAINER_3)).get('/api/auth/me')).body.user).toMatchObject({ email: TRAINER_3 })
+    }
+  })
+
+  it('refuses the 6th reset request for one e-mail within an hour with 429, and sends no more links', async () => {
+    const email = freshEmail('reset')
+    for (let i = 0; i < 5; i++) expect((await new Agent(baseUrl).post('/api/auth/forgot-password', { email })).status).toBe(200)
+    const blocked = await new Agent(baseUrl).post('/api/auth/forgot-password', { email })
+    expect(blocked.status).toBe(429)
+    expect(blocked.body.message).toMatch(/Too many reset requests/)
+  })
+})
