@@ -9,11 +9,11 @@ export const ROSTER_COLUMNS = [
   { id: 'started', label: 'Days in programme' },
   // Columns marked pending wait for their feature (milestones, homework review, invoices): listed so the choices
   // and their order are ready; shown once their data exists.
-  { id: 'milestone', label: 'Current milestone' },
+  { id: 'milestone', label: 'Milestone and readiness' },
   { id: 'nextDue', label: 'Next due' },
   { id: 'samples', label: 'Sample stock' },
   { id: 'diary', label: 'Real-life alerts' },
-  { id: 'homework', label: 'Homework to review', pending: true },
+  { id: 'homework', label: 'Homework to review' },
   { id: 'balance', label: 'Balance due' },
   { id: 'trainer', label: 'Trainer' },
 ] as const

@@ -28,6 +28,8 @@ const MAX_MESSAGE_BYTES = 25 * 1024 * 1024
  * @property {string} text plain-text body ('' when the message had none)
  * @property {string | null} html HTML body, or null when the message had none
  * @property {string | null} messageId Message-ID header
+ * @property {{ filename: string | null, contentType: string, size: number }[]} attachments files attached, in order
+ *   (their bytes at GET /api/messages/:id/attachments/:index)
  */
 
 /** @param {unknown} value */
@@ -131,6 +133,7 @@ function messagePage(m) {
 <dt>Received</dt><dd>${escapeHtml(displayTime(m.receivedAt))}</dd>
 <dt>Id</dt><dd><a href="/api/messages/${encodeURIComponent(m.id)}">${escapeHtml(m.id)}</a> (JSON)</dd>
 </dl>
+${m.attachments.length ? `<h2>Attachments</h2><ul>${m.attachments.map((a, i) => `<li><a href="/api/messages/${encodeURIComponent(m.id)}/attachments/${i}">${escapeHtml(a.filename || `attachment ${i + 1}`)}</a> <span class="muted">${escapeHtml(a.contentType)}, ${a.size} bytes</span></li>`).join('')}</ul>` : ''}
 <h2>Text body</h2>
 ${m.text ? `<pre>${escapeHtml(m.text)}</pre>` : '<p class="muted">No text body.</p>'}
 <h2>HTML body</h2>
@@ -206,6 +209,8 @@ function listen(server, port, host) {
 export async function startFakeSmtp({ smtpPort = 2525, httpPort = 8025, host = '127.0.0.1', quiet = false } = {}) {
   /** @type {StoredMessage[]} oldest first */
   const messages = []
+  /** @type {Map<string, Buffer[]>} attachment bytes by message id */
+  const attachmentBytes = new Map()
   const log = quiet ? () => {} : (/** @type {string} */ line) => console.log(`[fake-smtp] ${line}`)
 
   const smtp = new SMTPServer({
@@ -236,9 +241,11 @@ export async function startFakeSmtp({ smtpPort = 2525, httpPort = 8025, host = '
             text: parsed.text || '',
             html: typeof parsed.html === 'string' && parsed.html ? parsed.html : null,
             messageId: parsed.messageId || null,
+            attachments: (parsed.attachments || []).map((a) => ({ filename: a.filename || null, contentType: a.contentType, size: a.size })),
           }
+          attachmentBytes.set(message.id, (parsed.attachments || []).map((a) => a.content))
           messages.push(message)
-          while (messages.length > MAX_MESSAGES) messages.shift()
+          while (messages.length > MAX_MESSAGES) attachmentBytes.delete(/** @type {StoredMessage} */ (messages.shift()).id)
           log(`received "${message.subject}" for ${message.to.join(', ')}`)
           callback(null, `Message queued as ${message.id}`)
         })
@@ -277,10 +284,22 @@ export async function startFakeSmtp({ smtpPort = 2525, httpPort = 8025, host = '
         if (isRead) return sendJson(res, 200, listMessages(url.searchParams))
         if (method === 'DELETE') {
           messages.length = 0
+          attachmentBytes.clear()
           res.writeHead(204)
           return res.end()
         }
         return sendJson(res, 405, { error: `${method} is not supported on /api/messages; use GET or DELETE.` })
+      }
+
+      const fileMatch = /^\/api\/messages\/([^/]+)\/attachments\/(\d+)$/.exec(path)
+      if (fileMatch) {
+        if (!isRead) return sendJson(res, 405, { error: `${method} is not supported here; use GET.` })
+        const found = findMessage(decodeURIComponent(fileMatch[1]))
+        const bytes = found ? attachmentBytes.get(found.id)?.[Number(fileMatch[2])] : undefined
+        if (!found || !bytes) return sendJson(res, 404, { error: 'No attachment with this index on this message.' })
+        const meta = found.attachments[Number(fileMatch[2])]
+        res.writeHead(200, { 'content-type': meta?.contentType || 'application/octet-stream', 'content-length': bytes.length, 'cache-control': 'no-store' })
+        return res.end(bytes)
       }
 
       const apiMatch = /^\/api\/messages\/([^/]+)$/.exec(path)
@@ -294,6 +313,7 @@ export async function startFakeSmtp({ smtpPort = 2525, httpPort = 8025, host = '
 
       if (path === '/clear' && method === 'POST') {
         messages.length = 0
+        attachmentBytes.clear()
         res.writeHead(303, { location: '/' })
         return res.end()
       }

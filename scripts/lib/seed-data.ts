@@ -1,5 +1,6 @@
 // The demo scenario: an invented training business, its people and dogs. Every name here is invented.
 import { createHash } from 'node:crypto'
+import { resolve } from 'node:path'
 import { sql } from 'drizzle-orm'
 import type { Database } from '../../server/database/client'
 import * as s from '../../server/database/schema'
@@ -7,8 +8,9 @@ import { hashPassword } from './password'
 import { DOG_TABLES_CHILD_FIRST, bulkDogHistory, seedDogProfile } from './seed-dogs'
 import { DIARY_TABLES_CHILD_FIRST, seedDiaries } from './seed-diary'
 import { SAMPLE_TABLES_CHILD_FIRST, seedSampleBanks } from './seed-samples'
-import { TRAINING_TABLES_CHILD_FIRST, seedTraining } from './seed-training'
+import { TRAINING_TABLES_CHILD_FIRST, seedBulkTraining, seedTraining } from './seed-training'
 import { INVOICE_TABLES_CHILD_FIRST, seedInvoices } from './seed-invoices'
+import { HOMEWORK_TABLES_CHILD_FIRST, seedHomework } from './seed-homework'
 
 export const DEMO_PASSWORD = process.env.DEMO_PASSWORD || 'forescent-demo'
 export const BUSINESS_NAME = 'Larkspur Scent Partners'
@@ -63,10 +65,14 @@ export const CLIENTS: ClientSeed[] = [
   { key: 'ferris', trainer: 'trainer3', household: 'Ferris household', person: 'Elliot Ferris', condition: 'seizure', conditionDetail: 'Epilepsy, age 9', status: 'active', startedDaysAgo: 98, earlySigns: 'Staring spells before larger seizures.', frequency: 'About 5 a month', onset: 'Early morning', town: 'Kestle Bay', handlers: [{ key: 'h-ferris', relationship: 'parent' }], dog: { name: 'Wren', breed: 'Australian Shepherd', sex: 'female', ageDays: 700, source: 'programme-bred', status: 'in-training' } },
 ]
 
-const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...INVOICE_TABLES_CHILD_FIRST, ...TRAINING_TABLES_CHILD_FIRST, ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
+const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...HOMEWORK_TABLES_CHILD_FIRST, ...INVOICE_TABLES_CHILD_FIRST, ...TRAINING_TABLES_CHILD_FIRST, ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
 
-/** Empties every table and writes the demo scenario, in one transaction. */
-export async function seedDemo(db: Database, opts: { extraClients?: number } = {}) {
+/**
+ * Empties every table and writes the demo scenario, in one transaction. `filesDir` is the local file storage the
+ * seeded homework videos are copied into (default FILES_DIR, or ./data/files; none when an S3 bucket is set).
+ */
+export async function seedDemo(db: Database, opts: { extraClients?: number, filesDir?: string | null } = {}) {
+  const filesDir = opts.filesDir !== undefined ? opts.filesDir : process.env.S3_BUCKET ? null : resolve(process.cwd(), process.env.FILES_DIR || './data/files')
   const today = seedToday()
   const passwordHash = await hashPassword(DEMO_PASSWORD)
   await db.transaction(async (tx) => {
@@ -92,9 +98,11 @@ export async function seedDemo(db: Database, opts: { extraClients?: number } = {
       await seedDogProfile(tx, { key: c.key, dogId: seedId(`dog:${c.key}`), trainerId: seedId(`user:${c.trainer}`), status: c.dog.status, startedDaysAgo: c.startedDaysAgo, today, seedId })
     }
     await seedDiaries(tx, today, seedId)
-    await seedInvoices(tx, today, seedId)
     await seedSampleBanks(tx, { today, seedId, handlerOf: (key) => { const h = PEOPLE.find(p => p.key === CLIENTS.find(x => x.key === key)!.handlers[0]!.key)!; return { id: seedId(`user:${h.key}`), email: h.email, name: h.name } } })
     await seedTraining(tx, { today, seedId })
+    await seedHomework(tx, { today, seedId, filesDir })
+    // After the training seed: the fee schedule belongs to the default programme template.
+    await seedInvoices(tx, today, seedId)
     const extra = opts.extraClients ?? 0
     if (extra > 0) await seedExtraClients(tx, extra, today)
   })
@@ -132,5 +140,6 @@ async function seedExtraClients(tx: Parameters<Parameters<Database['transaction'
     await tx.insert(s.dogs).values(dogRows)
     await tx.insert(s.dogStatusChanges).values(dogChanges)
     await tx.insert(s.dogAssessments).values(dogAssessmentRows)
+    await seedBulkTraining(tx, { today, seedId }, rows.map((r, k) => ({ clientId: r.id, dogId: seedId(`bulk-dog:${start + k}`), trainerId: r.trainerId, i: start + k })))
   }
 }

@@ -61,3 +61,38 @@ export async function seedTraining(tx: Tx, ctx: SeedCtx) {
   for (const [n, o] of fw.entries()) await seedSession(tx, ctx, { key: 'fairweather', n, ...o })
   await seedSession(tx, ctx, { key: 'achterberg', n: 0, daysAgo: 3, blind: false, runBy: 'trainer', runByKey: 'trainer2', place: 'Garden', pattern: 'HHMC' })
 }
+
+/**
+ * Programmes and training logs for the bulk benchmark clients (seed-data.ts `extraClients`), so the roster's
+ * readiness column is measured with real work to do: every bulk client gets the default programme with 0–4
+ * milestones signed off; those whose current milestone is measured (discrimination, trained alert) get five
+ * sessions of six trials in the last few weeks. Invented and deterministic.
+ */
+export async function seedBulkTraining(tx: Tx, ctx: SeedCtx, bulk: { clientId: string, dogId: string, trainerId: string, i: number }[]) {
+  const milestones = []
+  const sessions = []
+  const trials = []
+  for (const c of bulk) {
+    const confirmed = c.i % 5
+    milestones.push(...DEFAULT_PROGRAMME.milestones.map((m, position) => ({
+      id: ctx.seedId(`bulk-milestone:${c.i}:${position}`), clientId: c.clientId, position, name: m.name, handlerText: m.handlerText, measured: m.measured,
+      confirmedAt: position < confirmed ? new Date(ctx.today.getTime() - (120 - position * 20) * DAY) : null,
+      confirmedById: position < confirmed ? c.trainerId : null,
+    })))
+    if (confirmed < 3) continue
+    for (let n = 0; n < 5; n++) {
+      const sessionId = ctx.seedId(`bulk-session:${c.i}:${n}`)
+      const daysAgo = 3 + n * 4 + (c.i % 3)
+      sessions.push({ id: sessionId, clientId: c.clientId, dogId: c.dogId, runBy: 'trainer' as const, runById: c.trainerId, day: isoDay(new Date(ctx.today.getTime() - daysAgo * DAY)), place: 'Training barn', stage: 'discrimination' as const, blind: n % 2 === 0 })
+      for (let t = 0; t < 6; t++) {
+        const target = t % 3 === 2 ? null : ((n + t) % 3) + 1
+        const indicated = target === null ? ((c.i + n + t) % 11 === 0 ? 1 : null) : ((c.i + n + t) % 13 === 0 ? null : target)
+        trials.push({ id: ctx.seedId(`bulk-trial:${c.i}:${n}:${t}`), sessionId, clientId: c.clientId, stations: 3, targetStation: target, indicatedStation: indicated })
+      }
+    }
+  }
+  const BATCH = 500
+  for (let i = 0; i < milestones.length; i += BATCH) await tx.insert(s.clientMilestones).values(milestones.slice(i, i + BATCH))
+  for (let i = 0; i < sessions.length; i += BATCH) await tx.insert(s.trainingSessions).values(sessions.slice(i, i + BATCH))
+  for (let i = 0; i < trials.length; i += BATCH) await tx.insert(s.trainingTrials).values(trials.slice(i, i + BATCH))
+}

@@ -6,7 +6,7 @@ import { clients, invoicePayments, invoices, stripeEvents } from '../database/sc
 import { balanceDue } from '../../shared/utils/invoices'
 import { todayInTimeZone } from '../../shared/utils/dogs'
 import type { AuthUser } from '../utils/authz'
-import type { InvoiceRow } from './invoices'
+import { readInvoiceSettings, type InvoiceRow } from './invoices'
 
 function paymentConflict(message: string): never {
   throw createError({ statusCode: 409, statusMessage: 'Conflict', message })
@@ -69,7 +69,7 @@ export async function handleStripeWebhook(rawBody: string, signature: string | u
     const amount = session.amount_total ?? 0
     // The same payment seen through another event (completed, then async-succeeded) is recorded once.
     const [payment] = await tx.insert(invoicePayments).values({
-      invoiceId, amountMinor: amount, method: 'card', reference, receivedOn: todayInTimeZone('UTC', new Date(evt.created * 1000)),
+      invoiceId, amountMinor: amount, method: 'card', reference, receivedOn: todayInTimeZone((await readInvoiceSettings(tx)).business.timeZone, new Date(evt.created * 1000)),
     }).onConflictDoNothing().returning()
     if (!payment) return { received: true as const, outcome: 'duplicate' as const }
     const paidMinor = row.invoice.paidMinor + amount

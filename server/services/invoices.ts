@@ -72,12 +72,18 @@ export async function listInvoices(user: AuthUser, query: { status?: string, cli
     clientScope(user),
     user.role === 'handler' ? sql`${invoices.status} <> 'draft'` : undefined,
     query.clientId ? eq(invoices.clientId, query.clientId) : undefined,
-    query.status && query.status !== 'overdue' ? eq(invoices.status, query.status as InvoiceRow['status']) : undefined,
+    query.status && query.status !== 'overdue' && query.status !== 'scheduled' ? eq(invoices.status, query.status as InvoiceRow['status']) : undefined,
+    query.status === 'scheduled' ? and(eq(invoices.status, 'draft'), sql`${invoices.scheduledIssueOn} is not null`) : undefined,
     query.status === 'overdue' ? and(eq(invoices.status, 'open'), sql`${invoices.dueDate} < ${today}`) : undefined,
   )
   const rows = await db.select({ invoice: invoices, householdName: clients.householdName }).from(invoices)
     .innerJoin(clients, eq(clients.id, invoices.clientId)).where(where)
-    .orderBy(desc(invoices.createdAt), desc(invoices.id)).limit(500)
+    .orderBy(
+      // A plan's instalments still to be issued come last, soonest first; everything else newest first.
+      sql`case when ${invoices.status} = 'draft' and ${invoices.scheduledIssueOn} is not null then 1 else 0 end`,
+      sql`case when ${invoices.status} = 'draft' then ${invoices.scheduledIssueOn} end`,
+      desc(invoices.createdAt), desc(invoices.id),
+    ).limit(500)
   const shown = rows.map(r => present(r.invoice, today, r.householdName))
   const owed: Record<string, number> = {}
   for (const r of shown) if (r.balanceMinor > 0) owed[r.currency] = (owed[r.currency] ?? 0) + r.balanceMinor
@@ -145,46 +151,70 @@ async function nextInvoiceSeq(tx: Tx, year: number): Promise<number> {
   return row!.seq
 }
 
-async function householdEmails(tx: DbOrTx, clientId: string) {
+export async function householdEmails(tx: DbOrTx, clientId: string) {
   const rows = await tx.select({ email: users.email, name: users.name }).from(clientHandlers)
     .innerJoin(users, eq(users.id, clientHandlers.userId)).where(eq(clientHandlers.clientId, clientId))
   return rows
 }
 
-/** Draft → open: numbers the invoice, dates it, and e-mails the household. */
+/** Draft → open: numbers the invoice, dates it, and e-mails the household (with the PDF attached). */
 export async function issueInvoice(user: AuthUser, invoice: InvoiceRow, client: ClientRow) {
   if (!canIssue(invoice.status)) invoiceConflict(`This invoice is ${invoice.status}; only a draft can be issued.`)
   const { business } = await readInvoiceSettings()
-  const issueDate = todayInTimeZone(business.timeZone)
-  const year = Number(issueDate.slice(0, 4))
   return invoiceWrite(async (tx) => {
-    const seq = await nextInvoiceSeq(tx, year)
-    const number = formatInvoiceNumber('invoice', year, seq)
-    const [row] = await tx.update(invoices).set({
-      status: 'open', number, numberYear: year, numberSeq: seq, issueDate, dueDate: addDays(issueDate, invoice.dueInDays), issuedAt: new Date(),
-    }).where(and(eq(invoices.id, invoice.id), eq(invoices.status, 'draft'))).returning()
+    const row = await issueDraftInTx(tx, user.id, invoice.id, client, business)
     // Someone else issued or voided it first: roll the number back with the transaction.
     if (!row) invoiceConflict('This invoice was changed by someone else just now. Reload and try again.')
-    for (const h of await householdEmails(tx, client.id)) {
-      await queueEmail(tx, {
-        to: h.email, dedupeKey: `invoice-issued:${row.id}:${h.email}`,
-        ...composeEmail({
-          subject: `Invoice ${number} from ${business.name}`,
-          greeting: `Hello ${h.name},`,
-          paragraphs: [
-            `Invoice ${number} for ${formatMoney(row.grossMinor, row.currency, business.locale)} is ready. It is due on ${row.dueDate}.`,
-            'You can see it and pay by card on your invoices page.',
-          ],
-          action: { label: 'See the invoice', url: appUrl(`/handler/invoices/${row.id}`) },
-        }),
-      })
-    }
-    await logAudit(tx, {
-      actorId: user.id, action: 'invoice.issued', entityType: 'invoice', entityId: row.id, clientId: client.id,
-      data: { name: `Invoice ${number}`, grossMinor: row.grossMinor, currency: row.currency },
-    })
     return row
   })
+}
+
+/**
+ * Issues one draft inside the caller's transaction (the office's button, a plan's deposit, the periodic job):
+ * the next number of the year, today's date in the business's zone, the e-mail with the PDF, the audit entry.
+ * Returns null when the invoice is no longer a draft (nothing is written then, and no number is used).
+ */
+export async function issueDraftInTx(tx: Tx, actorId: string | null, invoiceId: string, client: ClientRow, business: BusinessProfile) {
+  const [current] = await tx.select({ dueInDays: invoices.dueInDays, status: invoices.status }).from(invoices).where(eq(invoices.id, invoiceId)).limit(1)
+  if (!current || current.status !== 'draft') return null
+  const issueDate = todayInTimeZone(business.timeZone)
+  const year = Number(issueDate.slice(0, 4))
+  const seq = await nextInvoiceSeq(tx, year)
+  const number = formatInvoiceNumber('invoice', year, seq)
+  const [row] = await tx.update(invoices).set({
+    status: 'open', number, numberYear: year, numberSeq: seq, issueDate, dueDate: addDays(issueDate, current.dueInDays), issuedAt: new Date(), scheduledIssueOn: null,
+  }).where(and(eq(invoices.id, invoiceId), eq(invoices.status, 'draft'))).returning()
+  if (!row) return null
+  for (const h of await householdEmails(tx, client.id)) {
+    await queueEmail(tx, {
+      to: h.email, dedupeKey: `invoice-issued:${row.id}:${h.email}`,
+      attachments: [{ kind: 'invoice-pdf', id: row.id }],
+      ...composeEmail({
+        subject: `Invoice ${number} from ${business.name}`,
+        greeting: `Hello ${h.name},`,
+        paragraphs: [
+          `Invoice ${number} for ${formatMoney(row.grossMinor, row.currency, business.locale)} is ready. It is due on ${row.dueDate}. The invoice is attached as a PDF.`,
+          'You can see it and pay by card on your invoices page.',
+        ],
+        action: { label: 'See the invoice', url: appUrl(`/handler/invoices/${row.id}`) },
+      }),
+    })
+  }
+  await logAudit(tx, {
+    actorId, action: 'invoice.issued', entityType: 'invoice', entityId: row.id, clientId: client.id,
+    data: { name: `Invoice ${number}`, grossMinor: row.grossMinor, currency: row.currency, ...(actorId ? {} : { automatic: true }) },
+  })
+  return row
+}
+
+/** The invoice's PDF as a nodemailer attachment, rendered as the household sees it (used by the outbox at send time). */
+export async function invoicePdfAttachment(invoiceId: string) {
+  const [row] = await useDb().select({ invoice: invoices, client: clients }).from(invoices)
+    .innerJoin(clients, eq(clients.id, invoices.clientId)).where(eq(invoices.id, invoiceId)).limit(1)
+  if (!row) throw new Error(`Invoice ${invoiceId} to attach no longer exists`)
+  const viewer = { id: '', role: 'handler' } as AuthUser
+  const bytes = await renderInvoicePdf(await getInvoiceDetail(viewer, row.invoice, row.client))
+  return { filename: `${(row.invoice.number ?? 'invoice').replace(/[^\w-]/g, '')}.pdf`, content: Buffer.from(bytes), contentType: 'application/pdf' }
 }
 
 /** Discards a draft (it never had a number, so no gap is left). Issued invoices are corrected by a credit note. */

@@ -2,7 +2,21 @@ import { and, asc, eq, lte, sql } from 'drizzle-orm'
 import { outbox } from '../database/schema'
 import type { EmailContent } from '../utils/mail'
 
-export interface QueuedEmail extends EmailContent { to: string, dedupeKey?: string }
+/**
+ * An attachment by reference: the outbox stores what to attach, never the bytes, and renders it when the message is
+ * sent (an issued invoice does not change, so the PDF sent is the invoice as issued; a rendering failure leaves the
+ * message queued and retried like any sending failure).
+ */
+export interface OutboxAttachment { kind: 'invoice-pdf', id: string }
+export interface QueuedEmail extends EmailContent { to: string, dedupeKey?: string, attachments?: OutboxAttachment[] }
+
+async function renderAttachments(list: OutboxAttachment[] | null) {
+  if (!list?.length) return undefined
+  return Promise.all(list.map(async (a) => {
+    if (a.kind === 'invoice-pdf') return invoicePdfAttachment(a.id)
+    throw new Error(`Unknown attachment kind ${String((a as { kind: string }).kind)}`)
+  }))
+}
 
 /**
  * Writes an e-mail to the outbox inside the caller's transaction: it is sent only if the change commits,
@@ -15,6 +29,7 @@ export async function queueEmail(tx: DbOrTx, mail: QueuedEmail) {
     textBody: mail.text,
     htmlBody: mail.html,
     dedupeKey: mail.dedupeKey ?? null,
+    attachments: mail.attachments?.length ? mail.attachments : null,
   }).onConflictDoNothing({ target: outbox.dedupeKey })
   scheduleOutboxRun()
 }
@@ -55,7 +70,8 @@ export function deliverDueEmails(limit = 25): Promise<number> {
           .returning({ id: outbox.id })
         if (!claimed.length) continue
         try {
-          await useMailer().sendMail({ from, to: row.toAddress, subject: row.subject, text: row.textBody, html: row.htmlBody ?? undefined })
+          const attachments = await renderAttachments(row.attachments)
+          await useMailer().sendMail({ from, to: row.toAddress, subject: row.subject, text: row.textBody, html: row.htmlBody ?? undefined, attachments })
           await db.update(outbox).set({ status: 'sent', sentAt: new Date(), attempts: sql`${outbox.attempts} + 1`, lastError: null }).where(eq(outbox.id, row.id))
           sent++
         }

@@ -9,6 +9,7 @@ const PROVIDERS: Record<string, Provider> = {
   diary: clientIds => diaryRosterFigures(clientIds),
   balance: clientIds => invoiceBalances(clientIds),
   training: clientIds => trainingRosterStatus(clientIds),
+  homework: clientIds => homeworkRosterCounts(clientIds),
 }
 
 export async function rosterExtras(clientIds: string[]): Promise<Map<string, Record<string, unknown>>> {

@@ -1,6 +1,9 @@
 // File storage: one interface for the whole app, addressed by keys (like an object store), never by paths.
-// The local-disk backend keeps files under FILES_DIR; an S3-compatible backend can be added behind the same
-// interface later (put ~ PutObject, get with a range ~ GetObject with Range, stat ~ HeadObject, delete ~ DeleteObject).
+// Two backends: local disk under FILES_DIR (the default), and an S3-compatible bucket when S3_BUCKET is set (put ~
+// a streamed multipart upload, get with a range ~ GetObject with Range, stat ~ HeadObject, delete ~ DeleteObject),
+// so several app instances can share the files. tests/integration/storage.test.ts runs the same cases on both.
+import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, S3Client, type S3ClientConfig } from '@aws-sdk/client-s3'
+import { Upload } from '@aws-sdk/lib-storage'
 import { createReadStream, createWriteStream } from 'node:fs'
 import { mkdir, open, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { dirname, relative, resolve, sep, isAbsolute } from 'node:path'
@@ -121,10 +124,134 @@ export function fileStorageDir(): string {
   return resolve(process.cwd(), process.env.FILES_DIR || './data/files')
 }
 
+export interface S3FileStorageOptions {
+  bucket: string
+  /** An S3-compatible service's address (e.g. http://127.0.0.1:4568); unset for AWS itself. */
+  endpoint?: string
+  region?: string
+  accessKeyId?: string
+  secretAccessKey?: string
+  /** Address the bucket in the path (endpoint/bucket/key) rather than as a host name; most S3-compatible servers need it. */
+  forcePathStyle?: boolean
+}
+
+/** A missing object: S3 answers 404 with NotFound (HEAD) or NoSuchKey (GET). */
+function isMissing(err: unknown): boolean {
+  const e = err as { name?: string, Code?: string, $metadata?: { httpStatusCode?: number } }
+  return e?.name === 'NotFound' || e?.name === 'NoSuchKey' || e?.Code === 'NoSuchKey' || e?.$metadata?.httpStatusCode === 404
+}
+
+// Multipart parts of 8 MiB, at most 4 in flight: memory per upload stays near 32 MiB whatever the file's size, and a
+// 2 GiB video takes 256 parts, far below S3's 10,000 (our own choice; S3's minimum part is 5 MiB, AWS documentation).
+const S3_PART_BYTES = 8 * 1024 * 1024
+const S3_PARTS_IN_FLIGHT = 4
+
+/** An S3-compatible bucket: each key is an object. A put is a streamed (multipart) upload, visible only once complete. */
+export function createS3FileStorage(opts: S3FileStorageOptions): FileStorage {
+  const config: S3ClientConfig = {
+    region: opts.region || 'us-east-1',
+    forcePathStyle: !!opts.forcePathStyle,
+    // Only send and check checksums where S3 requires them: many S3-compatible servers do not understand the
+    // newer default (aws-chunked bodies with trailing CRC32 checksums).
+    requestChecksumCalculation: 'WHEN_REQUIRED',
+    responseChecksumValidation: 'WHEN_REQUIRED',
+    ...(opts.endpoint ? { endpoint: opts.endpoint } : {}),
+    ...(opts.accessKeyId && opts.secretAccessKey ? { credentials: { accessKeyId: opts.accessKeyId, secretAccessKey: opts.secretAccessKey } } : {}),
+  }
+  const client = new S3Client(config)
+  const Bucket = opts.bucket
+
+  async function info(key: string): Promise<FileStorageInfo | null> {
+    assertFileStorageKey(key)
+    try {
+      const head = await client.send(new HeadObjectCommand({ Bucket, Key: key }))
+      return { key, size: Number(head.ContentLength ?? 0), modifiedAt: head.LastModified ?? new Date(0) }
+    }
+    catch (err) {
+      if (isMissing(err)) return null
+      throw err
+    }
+  }
+
+  return {
+    async put(key, data, { contentType }) {
+      assertFileStorageKey(key)
+      const upload = new Upload({
+        client,
+        params: { Bucket, Key: key, Body: data, ContentType: contentType },
+        partSize: S3_PART_BYTES,
+        queueSize: S3_PARTS_IN_FLIGHT,
+        // A failed upload is aborted, so its parts never become an object (and do not linger as storage costs).
+        leavePartsOnError: false,
+      })
+      try {
+        await upload.done()
+      }
+      catch (err) {
+        if (data instanceof Readable && !data.destroyed) data.destroy()
+        throw err
+      }
+      const stored = await info(key)
+      if (!stored) throw new Error(`The object "${key}" was written but cannot be found in bucket ${Bucket}.`)
+      return stored
+    },
+
+    async get(key, range) {
+      const found = await info(key)
+      if (!found) return null
+      if (range && (range.start < 0 || range.end < range.start || range.end >= found.size)) {
+        throw new RangeError(`Range ${range.start}-${range.end} is outside the ${found.size} bytes of "${key}".`)
+      }
+      try {
+        const res = await client.send(new GetObjectCommand({ Bucket, Key: key, ...(range ? { Range: `bytes=${range.start}-${range.end}` } : {}) }))
+        const body = res.Body
+        const stream = body instanceof Readable ? body : Readable.fromWeb(body as unknown as import('node:stream/web').ReadableStream)
+        return { ...found, stream, range: range ?? null }
+      }
+      catch (err) {
+        if (isMissing(err)) return null
+        throw err
+      }
+    },
+
+    stat: info,
+
+    async delete(key) {
+      assertFileStorageKey(key)
+      try {
+        await client.send(new DeleteObjectCommand({ Bucket, Key: key }))
+      }
+      catch (err) {
+        if (!isMissing(err)) throw err
+      }
+    },
+
+    async exists(key) {
+      return (await info(key)) !== null
+    },
+  }
+}
+
+/** The S3 settings from the environment, or null when S3_BUCKET is not set (then files stay on local disk). */
+export function s3OptionsFromEnv(env: NodeJS.ProcessEnv = process.env): S3FileStorageOptions | null {
+  if (!env.S3_BUCKET) return null
+  return {
+    bucket: env.S3_BUCKET,
+    endpoint: env.S3_ENDPOINT || undefined,
+    region: env.S3_REGION || undefined,
+    accessKeyId: env.S3_ACCESS_KEY_ID || undefined,
+    secretAccessKey: env.S3_SECRET_ACCESS_KEY || undefined,
+    forcePathStyle: /^(1|true|yes)$/i.test(env.S3_FORCE_PATH_STYLE ?? ''),
+  }
+}
+
 let storage: FileStorage | undefined
 
-/** The one accessor for file storage. */
+/** The one accessor for file storage: the S3 bucket when S3_BUCKET is set, else local disk under FILES_DIR. */
 export function useFileStorage(): FileStorage {
-  storage ??= createLocalFileStorage(fileStorageDir())
+  if (!storage) {
+    const s3 = s3OptionsFromEnv()
+    storage = s3 ? createS3FileStorage(s3) : createLocalFileStorage(fileStorageDir())
+  }
   return storage
 }

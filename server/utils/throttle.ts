@@ -26,7 +26,7 @@ function waitText(ms: number): string {
 }
 
 function tooMany(event: H3Event, msBeforeNext: number, what: string): never {
-  setResponseHeader(event, 'Retry-After', String(Math.max(1, Math.ceil(msBeforeNext / 1000))))
+  setResponseHeader(event, 'Retry-After', Math.max(1, Math.ceil(msBeforeNext / 1000)))
   throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: `${what} Please wait ${waitText(msBeforeNext)} and try again.` })
 }
 

@@ -24,7 +24,7 @@ export const invoiceCreateSchema = z.object({
 export type InvoiceCreateInput = z.infer<typeof invoiceCreateSchema>
 
 export const invoiceListQuery = z.object({
-  status: z.enum([...INVOICE_STATUSES, 'overdue']).optional(),
+  status: z.enum([...INVOICE_STATUSES, 'overdue', 'scheduled']).optional(),
   clientId: z.string().trim().min(1).max(64).optional(),
 })
 

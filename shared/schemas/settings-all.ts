@@ -3,9 +3,10 @@ import type { SettingDefinition } from './settings'
 import { businessProfile } from './settings-business'
 import { samplePolicySetting } from './settings-samples'
 import { diaryPolicy } from './settings-diary'
-import { invoicePolicy } from './settings-invoices'
+import { invoicePolicy, reminderPolicy } from './settings-invoices'
 import { trainingPolicy } from './settings-training'
+import { homeworkUploadPolicy } from './settings-homework'
 
-const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy, invoicePolicy, trainingPolicy]
+const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy, invoicePolicy, reminderPolicy, trainingPolicy, homeworkUploadPolicy]
 
 export const SETTINGS: Record<string, SettingDefinition<any>> = Object.fromEntries(ALL.map(d => [d.key, d]))

@@ -23,3 +23,28 @@ export const invoicePolicy = defineSetting(INVOICE_POLICY_KEY, {
   defaults: INVOICE_POLICY_DEFAULTS,
   fieldLabels: { taxNumber: 'Tax number (VAT / sales tax)', paymentTermsDays: 'Days to pay', footer: 'Footer line' },
 })
+
+// Overdue reminders: one e-mail per open invoice per interval once it is overdue, at most a few times.
+export const reminderPolicySchema = z.object({
+  enabled: z.boolean({ invalid_type_error: "Choose yes or no." }),
+  firstAfterDaysOverdue: z.coerce.number().int('Use whole days.').min(1, 'Use at least 1 day.').max(365, 'Use at most 365 days.'),
+  intervalDays: z.coerce.number().int('Use whole days.').min(1, 'Use at least 1 day.').max(365, 'Use at most 365 days.'),
+  maxReminders: z.coerce.number().int('Use a whole number.').min(1, 'Use at least 1.').max(20, 'Use at most 20.'),
+})
+export type ReminderPolicySetting = z.infer<typeof reminderPolicySchema>
+
+export const REMINDER_POLICY_KEY = 'invoice-reminders'
+export const REMINDER_POLICY_DEFAULTS: ReminderPolicySetting = {
+  enabled: true,
+  firstAfterDaysOverdue: 3, // a first polite reminder a few days after the due date (common practice)
+  intervalDays: 7, // then weekly (common practice)
+  maxReminders: 3, // then the office follows up in person (common practice)
+}
+
+export const reminderPolicy = defineSetting(REMINDER_POLICY_KEY, {
+  label: 'Overdue reminders',
+  description: 'When the household is reminded of an overdue invoice by e-mail: first after so many days past the due date, then once per interval, at most so many times.',
+  schema: reminderPolicySchema,
+  defaults: REMINDER_POLICY_DEFAULTS,
+  fieldLabels: { enabled: 'Send reminders', firstAfterDaysOverdue: 'First reminder after (days overdue)', intervalDays: 'Days between reminders', maxReminders: 'Most reminders per invoice' },
+})

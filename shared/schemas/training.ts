@@ -39,6 +39,9 @@ export const trialSchema = z.object({
   indicatedStation: station,
   latencySeconds: z.number({ invalid_type_error: 'Enter the latency in seconds.' }).min(0, 'Latency cannot be negative.').max(3600, 'Use at most 3600 seconds.').nullable().optional().transform(v => v ?? null),
   notes: optionalText(500),
+  /** Made up by the device when the trial is tapped: the same trial sent twice is stored once (retry queue, reload). */
+  entryKey: z.string({ invalid_type_error: 'The trial key must be text.' }).trim().min(8, 'The trial key is too short.').max(64, 'The trial key is too long.')
+    .regex(/^[\w-]+$/, 'The trial key may hold letters, digits, - and _ only.').nullable().optional().transform(v => v ?? null),
 }).superRefine((t, ctx) => {
   if (t.targetStation !== null && t.targetStation > t.stations) ctx.addIssue({ code: 'custom', path: ['targetStation'], message: `The target must be at one of the ${t.stations} stations.` })
   if (t.indicatedStation !== null && t.indicatedStation > t.stations) ctx.addIssue({ code: 'custom', path: ['indicatedStation'], message: `There is no station ${t.indicatedStation}: this line-up has ${t.stations}.` })
@@ -54,7 +57,8 @@ export const sessionCreateSchema = z.object({
   conditions: optionalText(300),
   notes: optionalText(1000),
   blind: z.boolean({ required_error: 'Say whether the session ran blind.' }),
-  trials: z.array(trialSchema).max(200, 'Use at most 200 trials in one session.').default([]),
+  trials: z.array(trialSchema).max(200, 'Use at most 200 trials in one session.').default([])
+    .refine(ts => new Set(ts.flatMap(t => (t.entryKey ? [t.entryKey] : []))).size === ts.filter(t => t.entryKey).length, 'Each trial needs its own key: two trials share one.'),
 })
 export type SessionCreateInput = z.infer<typeof sessionCreateSchema>
 
@@ -68,3 +72,44 @@ export const templateUpdateSchema = z.object({
   milestones: z.array(templateMilestoneSchema).min(1, 'A programme has at least one milestone.').max(30, 'Use at most 30 milestones.'),
 })
 export type TemplateUpdateInput = z.infer<typeof templateUpdateSchema>
+
+// Adjusting one client's programme (the trainer of the client, or the admin).
+const milestoneName = templateMilestoneSchema.shape.name
+const milestoneHandlerText = templateMilestoneSchema.shape.handlerText
+
+/** Rename a milestone, edit what the handler reads, and/or tighten its criteria (null: back to the defaults). */
+export const milestoneUpdateSchema = z.object({
+  name: milestoneName.optional(),
+  handlerText: milestoneHandlerText.optional(),
+  criteria: criteriaSchema.nullable().optional(),
+}).refine(v => v.name !== undefined || v.handlerText !== undefined || v.criteria !== undefined, { message: 'Change the name, the text for the handler or the criteria.' })
+export type MilestoneUpdateInput = z.infer<typeof milestoneUpdateSchema>
+
+/** A new milestone at a place in the programme (0-based; signed-off milestones stay first). */
+export const milestoneAddSchema = z.object({
+  name: milestoneName,
+  handlerText: milestoneHandlerText,
+  measured: z.boolean().default(false),
+  position: z.number({ required_error: 'Choose where the milestone goes.', invalid_type_error: 'Choose where the milestone goes.' })
+    .int('Choose where the milestone goes.').min(0, 'Choose where the milestone goes.').max(100, 'Choose where the milestone goes.'),
+})
+export type MilestoneAddInput = z.infer<typeof milestoneAddSchema>
+
+/** The milestones not yet signed off, every one of them once, in their new order. */
+export const milestoneOrderSchema = z.object({
+  ids: z.array(id, { required_error: 'Send the milestones in their new order.' }).min(1, 'Send the milestones in their new order.').max(100, 'Too many milestones.'),
+})
+
+/** The session list across clients: server-side paging and filters. */
+export const sessionListQuery = z.object({
+  q: z.string().trim().max(100, 'Search with at most 100 characters.').optional(),
+  clientId: id.optional(),
+  dogId: id.optional(),
+  runBy: z.enum(SESSION_RUNNERS, { errorMap: () => ({ message: 'Run by is trainer or handler.' }) }).optional(),
+  blind: z.enum(['yes', 'no'], { errorMap: () => ({ message: 'Blind is yes or no.' }) }).optional(),
+  from: isoDate.optional(),
+  to: isoDate.optional(),
+  page: z.coerce.number().int('Page must be a whole number.').min(1, 'Pages start at 1.').max(100000).default(1),
+  pageSize: z.coerce.number().int('Use a whole number of rows.').min(5, 'Show at least 5 rows.').max(100, 'Show at most 100 rows.').default(25),
+}).refine(v => !v.from || !v.to || v.from <= v.to, { path: ['to'], message: 'The end date must be on or after the start date.' })
+export type SessionListQuery = z.infer<typeof sessionListQuery>

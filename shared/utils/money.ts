@@ -202,3 +202,27 @@ export function parseMoney(input: string, currency: string): number {
   const minor = BigInt(whole) * TEN ** BigInt(digits) + BigInt(significant.padEnd(digits, '0') || '0')
   return toSafe(minor, 'The amount')
 }
+
+/**
+ * A tax rate typed as a percent into basis points: '20' → 2000, '5.5' → 550, '0' → 0. At most two decimals and at
+ * most 100 %; RangeError with a message a person can act on otherwise.
+ */
+export function parsePercent(input: string): number {
+  const text = typeof input === 'string' ? input.trim().replace(/\s*%$/, '') : ''
+  const m = /^(\d{1,3})(?:\.(\d{1,2})0*)?$/.exec(text)
+  if (!m) throw new RangeError('Enter the tax rate as a percent, like 20 or 5.5.')
+  const bp = Number(m[1]) * 100 + Number((m[2] ?? '').padEnd(2, '0'))
+  if (bp > BASIS_POINTS_PER_WHOLE) throw new RangeError('The tax rate is at most 100 %.')
+  return bp
+}
+
+/** Basis points as a percent for people: 2000 → '20', 550 → '5.5'. */
+export function percentText(basisPoints: number): string {
+  return String(basisPoints / 100)
+}
+
+/** Minor units as the plain decimal a person would type back into a form: (60000, 'GBP') → '600.00'. */
+export function amountText(minor: number, currency: string): string {
+  assertSafeInteger(minor, 'The amount')
+  return decimalText(minor, minorUnits(currency))
+}

@@ -74,6 +74,15 @@ export interface SessionForReadiness {
   day: string // YYYY-MM-DD
   blind: boolean
   trials: Trial[]
+  /** When the session was logged; needed only when readiness counts from a previous sign-off. */
+  createdAt?: Date
+}
+
+/** The sign-off of the milestone before: trials logged before it were evidence for that milestone, not this one. */
+export interface CountFrom {
+  /** The sign-off's moment, and its day in the business's time zone. */
+  at: Date
+  day: string
 }
 
 export interface CriterionResult {
@@ -88,6 +97,8 @@ export interface CriterionResult {
 
 export interface Readiness {
   from: string
+  /** Set when the window was cut short by the previous milestone's sign-off. */
+  countedFromSignOff: boolean
   to: string
   criteria: CriterionResult[]
   allMet: boolean
@@ -123,9 +134,14 @@ function boundCriterion(key: 'sensitivity' | 'specificity', interval: Proportion
  * the window are ignored). Sensitivity and specificity follow scoreTrials (shared/utils/stats.ts); "blind" counts
  * the trials of sessions run blind.
  */
-export function evaluateReadiness(criteria: ReadinessCriteria, sessions: readonly SessionForReadiness[], today: string, confidence = 0.95): Readiness {
-  const from = windowStart(today, criteria.windowDays)
-  const inWindow = sessions.filter(s => s.day >= from && s.day <= today)
+export function evaluateReadiness(criteria: ReadinessCriteria, sessions: readonly SessionForReadiness[], today: string, confidence = 0.95, countFrom: CountFrom | null = null): Readiness {
+  const windowFrom = windowStart(today, criteria.windowDays)
+  // Each milestone is earned on its own evidence: after a sign-off, the next milestone counts only the sessions logged
+  // after it (common practice: a new stage is judged on the trials run at that stage).
+  const countedFromSignOff = countFrom !== null && countFrom.day >= windowFrom
+  const from = countedFromSignOff ? countFrom!.day : windowFrom
+  const inWindow = sessions.filter(s => s.day >= from && s.day <= today
+    && (!countFrom || (s.day >= countFrom.day && (!s.createdAt || s.createdAt.getTime() > countFrom.at.getTime()))))
   const trials = inWindow.flatMap(s => s.trials)
   const withTrials = inWindow.filter(s => s.trials.length > 0)
   const days = new Set(withTrials.map(s => s.day)).size
@@ -156,7 +172,7 @@ export function evaluateReadiness(criteria: ReadinessCriteria, sessions: readonl
   })
   results.push(boundCriterion('sensitivity', score.sensitivity, criteria.minSensitivityLowerPercent, `Finds the target: lower bound at least ${criteria.minSensitivityLowerPercent}%`, 'trials with a target'))
   results.push(boundCriterion('specificity', score.specificity, criteria.minSpecificityLowerPercent, `Stays quiet on blanks: lower bound at least ${criteria.minSpecificityLowerPercent}%`, 'blank trials'))
-  return { from, to: today, criteria: results, allMet: results.every(r => r.met), score, blindTrials }
+  return { from, countedFromSignOff, to: today, criteria: results, allMet: results.every(r => r.met), score, blindTrials }
 }
 
 /** Plain words for a proportion and its interval, for handlers and printed reports. */
@@ -165,3 +181,113 @@ export function intervalInWords(interval: ProportionInterval | null, what: strin
   return `${pct(interval.estimate)} — with the trials so far, the true figure most likely lies between ${pct(interval.lower)} and ${pct(interval.upper)}.`
 }
 
+
+// ---------------------------------------------------------------------------------------------------------------
+// Adjusting a client's programme: where milestones go when one is added, removed or the order changes. Signed-off
+// milestones stay first and in place (sign-off runs in order), and positions stay 0..n-1 without gaps.
+
+export const MAX_MILESTONES = 30 // our own limit, the same as a template's
+
+export interface ProgrammeSlot { id: string, position: number, confirmed: boolean }
+
+export type ArrangeResult =
+  | { ok: true, order: string[] }
+  | { ok: false, status: 409 | 422, message: string, field?: string }
+
+const byPosition = (slots: readonly ProgrammeSlot[]) => [...slots].sort((a, b) => a.position - b.position)
+const confirmedFirst = (slots: readonly ProgrammeSlot[]) => byPosition(slots).filter(s => s.confirmed)
+
+/** Where a new milestone may go: at `position` (0-based), never before a signed-off one. `newId` names it in the order. */
+export function arrangeInsert(slots: readonly ProgrammeSlot[], position: number, newId: string): ArrangeResult {
+  const ordered = byPosition(slots)
+  const signed = confirmedFirst(slots).length
+  if (ordered.length >= MAX_MILESTONES) return { ok: false, status: 422, message: `A programme has at most ${MAX_MILESTONES} milestones. Remove one first.` }
+  if (!Number.isInteger(position) || position < signed || position > ordered.length) {
+    return {
+      ok: false, status: 422, field: 'position',
+      message: signed
+        ? `Signed-off milestones stay first: put the new one at place ${signed + 1} to ${ordered.length + 1}.`
+        : `Put the new milestone at place 1 to ${ordered.length + 1}.`,
+    }
+  }
+  const order = ordered.map(s => s.id)
+  order.splice(position, 0, newId)
+  return { ok: true, order }
+}
+
+/** The order after removing a milestone; a signed-off one, or the programme's only one, stays. */
+export function arrangeRemoval(slots: readonly ProgrammeSlot[], id: string): ArrangeResult {
+  const target = slots.find(s => s.id === id)
+  if (!target) return { ok: false, status: 422, message: 'That milestone is not in this programme.' }
+  if (target.confirmed) return { ok: false, status: 409, message: 'This milestone was signed off: it stays in the record and cannot be removed.' }
+  if (slots.length === 1) return { ok: false, status: 422, message: 'A programme keeps at least one milestone. Add another before removing this one.' }
+  return { ok: true, order: byPosition(slots).filter(s => s.id !== id).map(s => s.id) }
+}
+
+/**
+ * The order after the trainer reorders the milestones not yet signed off. `unsignedIds` lists every one of them, each
+ * once, in the new order; the signed-off ones keep their places at the front.
+ */
+export function arrangeReorder(slots: readonly ProgrammeSlot[], unsignedIds: readonly string[]): ArrangeResult {
+  const open = byPosition(slots).filter(s => !s.confirmed).map(s => s.id)
+  const given = new Set(unsignedIds)
+  if (given.size !== unsignedIds.length) return { ok: false, status: 422, field: 'ids', message: 'Each milestone may appear only once in the new order.' }
+  const signedGiven = unsignedIds.filter(id => slots.some(s => s.id === id && s.confirmed))
+  if (signedGiven.length) return { ok: false, status: 409, field: 'ids', message: 'Signed-off milestones stay first and in place: reorder only the ones still to come.' }
+  if (given.size !== open.length || open.some(id => !given.has(id))) {
+    return { ok: false, status: 409, field: 'ids', message: 'The programme changed meanwhile (a milestone was added, removed or signed off). Reload it and reorder again.' }
+  }
+  return { ok: true, order: [...confirmedFirst(slots).map(s => s.id), ...unsignedIds] }
+}
+
+/** Rows whose position changes when `order` is applied: [id, new position]. */
+export function positionChanges(slots: readonly ProgrammeSlot[], order: readonly string[]): [string, number][] {
+  const now = new Map(slots.map(s => [s.id, s.position]))
+  return order.map((id, i) => [id, i] as [string, number]).filter(([id, i]) => now.get(id) !== i)
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Readiness in a few words (the roster column)
+
+export type ReadinessState = 'ready' | 'not yet' | 'unmeasured'
+
+/** Ready, not yet (with the first thing still needed, e.g. "8 more blind trials"), or unmeasured (no measured criteria). */
+export function readinessSummary(readiness: Readiness | null): { state: ReadinessState, stillNeeded: string | null, unmet: number } {
+  if (!readiness) return { state: 'unmeasured', stillNeeded: null, unmet: 0 }
+  const unmet = readiness.criteria.filter(c => !c.met)
+  return { state: unmet.length ? 'not yet' : 'ready', stillNeeded: unmet[0]?.stillNeeded ?? null, unmet: unmet.length }
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// A dog's reliability over all its sessions: overall, blind against not blind, and per stage.
+
+export interface SessionForReliability { day: string, blind: boolean, stage: string, trials: Trial[] }
+
+export interface DogReliability {
+  overall: TrialScore
+  blind: TrialScore
+  notBlind: TrialScore
+  /** Stages in the order given (first seen first when not given), only those with sessions. */
+  byStage: { stage: string, sessions: number, score: TrialScore }[]
+  sessions: number
+  firstDay: string | null
+  lastDay: string | null
+}
+
+export function dogReliability(sessions: readonly SessionForReliability[], stageOrder: readonly string[] = [], confidence = 0.95): DogReliability {
+  const all = sessions.flatMap(s => s.trials)
+  const stages = new Map<string, SessionForReliability[]>()
+  for (const s of sessions) stages.set(s.stage, [...(stages.get(s.stage) ?? []), s])
+  const rank = (stage: string) => { const i = stageOrder.indexOf(stage); return i < 0 ? stageOrder.length : i }
+  const days = sessions.map(s => s.day).sort()
+  return {
+    overall: scoreTrials(all, confidence),
+    blind: scoreTrials(sessions.filter(s => s.blind).flatMap(s => s.trials), confidence),
+    notBlind: scoreTrials(sessions.filter(s => !s.blind).flatMap(s => s.trials), confidence),
+    byStage: [...stages.entries()].sort(([a], [b]) => rank(a) - rank(b))
+      .map(([stage, list]) => ({ stage, sessions: list.length, score: scoreTrials(list.flatMap(s => s.trials), confidence) })),
+    sessions: sessions.length,
+    firstDay: days[0] ?? null,
+    lastDay: days.at(-1) ?? null,
+  }
+}

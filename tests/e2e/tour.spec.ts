@@ -3,6 +3,10 @@
 import { expect, test } from '@playwright/test'
 import { ADMIN, CLIENT_A, HANDLER_A, TRAINER_A } from '../support/people'
 import { DESKTOP, PHONE, shot, signInAs } from './helpers'
+import { seedId } from '../../scripts/lib/seed-data'
+
+const HOMEWORK_ASSIGNMENT_A = seedId('assignment:fairweather:two-controls')
+const HOMEWORK_VIDEO_A = seedId('video:fairweather:two-controls:1')
 
 const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp | string }[] }[] = [
   { who: 'admin', email: ADMIN, pages: [
@@ -11,7 +15,12 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: '/admin/trainers', heading: 'Trainers' },
     { path: '/admin/settings', heading: 'Policies' },
     { path: '/admin/invoices', heading: 'Invoices' },
+    { path: '/admin/fee-schedules', heading: 'Fee schedules' },
+    { path: `/admin/clients/${CLIENT_A}/invoices`, heading: 'Invoices' },
     { path: '/admin/programme-templates', heading: 'Programme templates' },
+    { path: '/admin/training', heading: 'Training sessions' },
+    { path: `/admin/dogs/reliability-${seedId('dog:achterberg')}`, heading: 'measured reliability' },
+    { path: '/admin/homework', heading: 'Homework to review' },
   ] },
   { who: 'trainer', email: TRAINER_A, pages: [
     { path: '/trainer', heading: 'Your roster' },
@@ -20,6 +29,12 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: `/trainer/clients/${CLIENT_A}/samples`, heading: 'Sample bank' },
     { path: `/trainer/clients/${CLIENT_A}/diary`, heading: /diary/i },
     { path: `/trainer/clients/${CLIENT_A}/training`, heading: 'Training and reliability' },
+    { path: '/trainer/training', heading: 'Training sessions' },
+    { path: `/trainer/dogs/reliability-${seedId('dog:fairweather')}`, heading: 'measured reliability' },
+    { path: `/trainer/clients/${CLIENT_A}/homework`, heading: 'Homework' },
+    { path: '/trainer/homework', heading: 'Homework to review' },
+    { path: '/trainer/homework/exercises', heading: 'Exercise library' },
+    { path: `/trainer/homework/videos/${HOMEWORK_VIDEO_A}`, heading: 'Two controls and one target on the floor' },
   ] },
   { who: 'handler', email: HANDLER_A, pages: [
     { path: '/handler', heading: 'Ada Fairweather' },
@@ -28,12 +43,15 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: `/handler/samples/${CLIENT_A}/collect`, heading: 'Collect a sample' },
     { path: `/handler/diary/${CLIENT_A}`, heading: /diary/i },
     { path: '/handler/invoices', heading: 'Invoices and receipts' },
+    { path: `/handler/homework/${CLIENT_A}`, heading: 'Homework' },
+    { path: `/handler/homework/assignments/${HOMEWORK_ASSIGNMENT_A}`, heading: 'Two controls and one target on the floor' },
   ] },
 ]
 
 for (const viewport of [{ name: 'phone', size: PHONE }, { name: 'desktop', size: DESKTOP }]) {
   for (const role of TOUR) {
     test(`${role.who} pages render on a ${viewport.name}`, async ({ page }) => {
+      test.setTimeout(120_000) // a dozen pages per role, on a shared 2-core machine
       const problems: string[] = []
       page.on('pageerror', e => problems.push(e.message))
       // Failed requests are judged by their URL below; a dog without a photo answers 404 by design.

@@ -76,7 +76,7 @@ describe('readiness figures', () => {
     expect((await programme(trainer)).current.name).toBe('Trained alert behaviour')
     // The roster shows the new current milestone.
     const roster = await trainer.get('/api/clients?pageSize=50')
-    expect(roster.body.rows.find((r: { id: string }) => r.id === CLIENT_A).extras.training).toEqual({ current: 'Trained alert behaviour', done: 4, total: 10 })
+    expect(roster.body.rows.find((r: { id: string }) => r.id === CLIENT_A).extras.training).toMatchObject({ current: 'Trained alert behaviour', done: 4, total: 10 })
   })
 
   it('a trainer can tighten a client\'s criteria, never loosen them', async () => {

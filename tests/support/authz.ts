@@ -15,6 +15,8 @@ export type Ctx = Record<string, string>
 
 export interface Row {
   route: string // "METHOD /api/path/[param]", as the file lays it out
+  /** The request's method when the route file takes several ("ALL …", e.g. the tus upload endpoint). */
+  method?: string
   path: string | ((actor: Actor, ctx: Ctx) => string)
   body?: unknown | ((actor: Actor, ctx: Ctx) => unknown)
   /** Raw body and content type instead of JSON (uploads). */

@@ -9,6 +9,7 @@ import { migrateDatabase, openDatabase, prepareDatabase } from '../../server/dat
 import { seedDemo } from '../../scripts/lib/seed-data'
 import { startFakeSmtp, type FakeSmtp } from '../../fake-services/smtp/server.mjs'
 import { startFakeStripe } from '../../fake-services/stripe/server.mjs'
+import { startFakeS3, type FakeS3 } from '../../fake-services/s3/server.mjs'
 
 export const ROOT = resolve(import.meta.dirname, '../..')
 export const TEST_SESSION_PASSWORD = 'test-session-password-which-is-long-enough-1234'
@@ -35,6 +36,11 @@ export function filesDirFor(databaseUrl: string): string {
   return `${databaseUrl.replace(/^file:/, '').replace(/\.db$/, '')}-files`
 }
 
+/** The stack's folder for resumable uploads in progress (UPLOAD_STAGING_DIR), beside its database. */
+export function stagingDirFor(databaseUrl: string): string {
+  return `${databaseUrl.replace(/^file:/, '').replace(/\.db$/, '')}-staging`
+}
+
 /** Migrates and (re)seeds the database with the demo scenario. */
 export async function resetDatabase(url: string) {
   // The stored files belong to the rows being wiped: clear them too, so a reseed is a clean slate.
@@ -42,7 +48,7 @@ export async function resetDatabase(url: string) {
   const { client, db } = openDatabase(url)
   await prepareDatabase(client, url)
   await migrateDatabase(db)
-  await seedDemo(db)
+  await seedDemo(db, { filesDir: filesDirFor(url) })
   client.close()
 }
 
@@ -52,10 +58,12 @@ export interface Stack {
   databaseUrl: string
   smtpPort: number
   smtp: FakeSmtp | null
+  /** The fake S3 when started with `storage: 's3'` (its setDown() switches storage off for a test). */
+  s3: FakeS3 | null
   stop: () => Promise<void>
 }
 
-export async function startStack(opts: { label?: string, env?: Record<string, string>, startSmtp?: boolean } = {}): Promise<Stack> {
+export async function startStack(opts: { label?: string, env?: Record<string, string>, startSmtp?: boolean, storage?: 'local' | 's3' } = {}): Promise<Stack> {
   const entry = resolve(ROOT, process.env.NUXT_OUTPUT_DIR || '.output', 'server/index.mjs')
   if (!existsSync(entry)) throw new Error('No built server in .output: run `npm run build` (the test command does it for you).')
   const databaseUrl = tempDatabaseUrl(opts.label ?? 'stack')
@@ -67,6 +75,8 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
   // The fake Stripe (fake-services/stripe), delivering signed webhooks to this server.
   const stripeWebhookSecret = `whsec_test_${randomBytes(12).toString('hex')}`
   const stripe = await startFakeStripe({ port: 0, webhookUrl: `${baseUrl}/api/webhooks/stripe`, webhookSecret: stripeWebhookSecret, quiet: true })
+  // With `storage: 's3'`, files go to the fake S3 (fake-services/s3) instead of FILES_DIR.
+  const s3 = opts.storage === 's3' ? await startFakeS3({ directory: `${filesDirFor(databaseUrl)}-s3`, quiet: true }) : null
   const child: ChildProcess = spawn(process.execPath, [entry], {
     cwd: ROOT,
     env: {
@@ -76,6 +86,10 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       HOST: '127.0.0.1',
       DATABASE_URL: databaseUrl,
       FILES_DIR: filesDirFor(databaseUrl),
+      UPLOAD_STAGING_DIR: stagingDirFor(databaseUrl),
+      // The cleanup of expired homework uploads looks every second.
+      UPLOAD_CLEANUP_INTERVAL_MS: '1000',
+      ...(s3?.env ?? {}),
       NUXT_SESSION_PASSWORD: TEST_SESSION_PASSWORD,
       SMTP_HOST: '127.0.0.1',
       SMTP_PORT: String(smtpPort),
@@ -88,6 +102,8 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       OUTBOX_INTERVAL_MS: '250',
       // The periodic sample-stock check looks every second (it only refreshes households whose status is stale).
       SAMPLE_CHECK_INTERVAL_MS: '1000',
+      // The hourly invoice job (scheduled instalments, overdue reminders) is driven by its route in the tests instead.
+      INVOICE_SCHEDULE: 'off',
       ...opts.env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
@@ -112,11 +128,13 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
     databaseUrl,
     smtpPort,
     smtp,
+    s3,
     async stop() {
       child.kill('SIGTERM')
       await new Promise(r => (child.exitCode !== null ? r(null) : child.once('exit', r)))
       await smtp?.close()
       await stripe.close()
+      await s3?.close()
     },
   }
 }

@@ -25,7 +25,7 @@ async function getJson<T>(path: string): Promise<{ status: number; body: T }> {
   return { status: res.status, body: (await res.json()) as T }
 }
 
-async function send(mail: { to: string; subject: string; text: string; html?: string }) {
+async function send(mail: { to: string; subject: string; text: string; html?: string; attachments?: { filename: string; content: Buffer; contentType: string }[] }) {
   const transport = createTransport({ host: '127.0.0.1', port: fake.smtpPort, secure: false, ignoreTLS: true })
   try {
     return await transport.sendMail({ from: `Fernhill Scentwork <${TRAINER}>`, ...mail })
@@ -139,5 +139,17 @@ describe('fake SMTP service', () => {
     expect(after.body).toEqual([])
     const gone = await getJson<{ error: string }>(`/api/messages/${before.body[0]!.id}`)
     expect(gone.status).toBe(404)
+  })
+
+  it('keeps attachments: listed in the message JSON, bytes downloadable by index', async () => {
+    const bytes = Buffer.from('%PDF-1.7 invented test bytes')
+    await send({ to: HANDLER_B, subject: 'With a file', text: 'See attached.', attachments: [{ filename: 'INV-2026-0001.pdf', content: bytes, contentType: 'application/pdf' }] })
+    const list = await getJson<Array<Message & { attachments: { filename: string; contentType: string; size: number }[] }>>(`/api/messages?subject=${encodeURIComponent('With a file')}`)
+    const m = list.body[0]!
+    expect(m.attachments).toEqual([{ filename: 'INV-2026-0001.pdf', contentType: 'application/pdf', size: bytes.length }])
+    const file = await fetch(`${base}/api/messages/${m.id}/attachments/0`)
+    expect(file.headers.get('content-type')).toBe('application/pdf')
+    expect(Buffer.from(await file.arrayBuffer()).equals(bytes)).toBe(true)
+    expect((await fetch(`${base}/api/messages/${m.id}/attachments/1`)).status).toBe(404)
   })
 })

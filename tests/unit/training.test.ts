@@ -84,6 +84,32 @@ describe('evaluateReadiness', () => {
   })
 })
 
+describe('evaluateReadiness after a sign-off', () => {
+  const easy: ReadinessCriteria = { ...criteria, minTrials: 2, minSessions: 1, minDays: 1, minBlindPercent: 0, minSensitivityLowerPercent: 0, minSpecificityLowerPercent: 0 }
+  const signOff = { at: new Date('2026-06-20T12:00:00Z'), day: '2026-06-20' }
+  const before: SessionForReadiness = { day: '2026-06-19', blind: false, trials: [hit(), hit()], createdAt: new Date('2026-06-19T10:00:00Z') }
+  const sameDayBefore: SessionForReadiness = { day: '2026-06-20', blind: false, trials: [hit(), hit()], createdAt: new Date('2026-06-20T09:00:00Z') }
+  const sameDayAfter: SessionForReadiness = { day: '2026-06-20', blind: false, trials: [hit(), blankQuiet()], createdAt: new Date('2026-06-20T15:00:00Z') }
+  const backfilled: SessionForReadiness = { day: '2026-06-18', blind: false, trials: [hit(), hit()], createdAt: new Date('2026-06-25T10:00:00Z') }
+
+  it('counts only sessions logged after the previous milestone was signed off, on or after its day', () => {
+    const none = evaluateReadiness(easy, [before, sameDayBefore, backfilled], '2026-06-30', 0.95, signOff)
+    expect(none.score.counts.trials).toBe(0)
+    expect(none.allMet).toBe(false)
+    expect(none.from).toBe('2026-06-20')
+    expect(none.countedFromSignOff).toBe(true)
+    const some = evaluateReadiness(easy, [before, sameDayBefore, sameDayAfter, backfilled], '2026-06-30', 0.95, signOff)
+    expect(some.score.counts.trials).toBe(2)
+    expect(some.allMet).toBe(true)
+  })
+
+  it('keeps the rolling window when the sign-off lies before it', () => {
+    const r = evaluateReadiness(easy, [before], '2026-09-30', 0.95, signOff)
+    expect(r.countedFromSignOff).toBe(false)
+    expect(r.from).toBe(windowStart('2026-09-30', easy.windowDays))
+  })
+})
+
 describe('loosenedCriteria', () => {
   it('lists criteria looser than the defaults, accepts stricter ones', () => {
     expect(loosenedCriteria(DEFAULT_CRITERIA, { ...DEFAULT_CRITERIA, minTrials: 60, windowDays: 30 })).toEqual([])

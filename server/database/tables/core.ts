@@ -121,6 +121,8 @@ export const outbox = sqliteTable('outbox', {
   htmlBody: text('html_body'),
   // A message with a key is written at most once (reminders, notices that must not repeat).
   dedupeKey: text('dedupe_key'),
+  // Attachments by reference ([{ kind: 'invoice-pdf', id }]), rendered when the message is sent (server/services/outbox.ts).
+  attachments: text('attachments', { mode: 'json' }).$type<Array<{ kind: 'invoice-pdf', id: string }>>(),
   status: text('status', { enum: ['pending', 'sent', 'failed'] }).notNull().default('pending'),
   attempts: integer('attempts').notNull().default(0),
   nextAttemptAt: integer('next_attempt_at', { mode: 'timestamp_ms' }).notNull().default(now),

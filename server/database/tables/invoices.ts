@@ -1,7 +1,9 @@
 // Invoices and credit notes, their lines, the per-year number sequence and payments recorded against them.
 import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
 import { INVOICE_KINDS, INVOICE_STATUSES } from '../../../shared/utils/invoices'
+import type { FeeLine } from '../../../shared/utils/fee-plan'
 import { clients, id, timestamps, users } from './core'
+import { programmeTemplates } from './training'
 
 export const invoices = sqliteTable('invoices', {
   id: id(),
@@ -27,9 +29,19 @@ export const invoices = sqliteTable('invoices', {
   issuedAt: integer('issued_at', { mode: 'timestamp_ms' }),
   paidAt: integer('paid_at', { mode: 'timestamp_ms' }),
   voidedAt: integer('voided_at', { mode: 'timestamp_ms' }),
+  // Created from a fee schedule's plan: which schedule and which part ('deposit', 'instalment:2'); unique per client,
+  // so a plan's invoice is never created twice. A plan's draft is issued on `scheduledIssueOn` by the periodic job.
+  feeScheduleId: text('fee_schedule_id'),
+  planPart: text('plan_part'),
+  scheduledIssueOn: text('scheduled_issue_on'),
+  // Overdue reminders: how many were sent (one per policy interval) and when the last one was queued.
+  remindersSent: integer('reminders_sent').notNull().default(0),
+  lastRemindedAt: integer('last_reminded_at', { mode: 'timestamp_ms' }),
   ...timestamps,
 }, t => [
   uniqueIndex('invoices_number_uq').on(t.number),
+  uniqueIndex('invoices_plan_part_uq').on(t.clientId, t.feeScheduleId, t.planPart),
+  index('invoices_scheduled_idx').on(t.status, t.scheduledIssueOn),
   uniqueIndex('invoices_year_seq_uq').on(t.numberYear, t.numberSeq),
   index('invoices_client_idx').on(t.clientId, t.status),
 ])
@@ -75,3 +87,17 @@ export const stripeEvents = sqliteTable('stripe_events', {
   outcome: text('outcome').notNull(),
   receivedAt: integer('received_at', { mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
 })
+
+/** A programme template's fees: the price list and the payment plan (deposit, then instalments), one per template. */
+export const feeSchedules = sqliteTable('fee_schedules', {
+  id: id(),
+  templateId: text('template_id').notNull().references(() => programmeTemplates.id, { onDelete: 'cascade' }),
+  currency: text('currency').notNull(),
+  taxRateBasisPoints: integer('tax_rate_bp').notNull(),
+  depositMinor: integer('deposit_minor').notNull(),
+  instalmentCount: integer('instalment_count').notNull(),
+  intervalMonths: integer('interval_months').notNull().default(1),
+  lines: text('lines', { mode: 'json' }).$type<FeeLine[]>().notNull(),
+  updatedById: text('updated_by_id').references(() => users.id, { onDelete: 'set null' }),
+  ...timestamps,
+}, t => [uniqueIndex('fee_schedules_template_uq').on(t.templateId)])

@@ -55,5 +55,10 @@ export const trainingTrials = sqliteTable('training_trials', {
   indicatedStation: integer('indicated_station'),
   latencySeconds: real('latency_seconds'),
   notes: text('notes'),
+  // A key the device makes up when the trial is tapped, so a trial sent again (retry queue, reload) is stored once.
+  entryKey: text('entry_key'),
   ...timestamps,
-}, t => [index('training_trials_session_idx').on(t.sessionId), index('training_trials_client_idx').on(t.clientId)])
+}, t => [
+  index('training_trials_session_idx').on(t.sessionId), index('training_trials_client_idx').on(t.clientId),
+  uniqueIndex('training_trials_entry_key_unique').on(t.sessionId, t.entryKey),
+])

@@ -53,6 +53,33 @@ export const rows: Row[] = [
     expect: { ...adminOnly(200), admin: { status: 200, check: r => expect(r.body.milestones.length).toBe(2) } },
   },
   {
+    route: 'DELETE /api/client-milestones/[id]', path: `/api/client-milestones/${seedId('milestone:fairweather:5')}`, mutates: true,
+    expect: clientA(200, 403),
+  },
+  {
+    route: 'POST /api/clients/[id]/milestones', path: `/api/clients/${CLIENT_A}/milestones`, mutates: true,
+    body: { name: 'Alerts in the car', handlerText: 'Your dog alerts just as well on car journeys.', position: 5 },
+    expect: { ...clientA(201, 403), trainerA: { status: 201, check: r => expect(r.body.position).toBe(5) } },
+  },
+  {
+    route: 'PUT /api/clients/[id]/milestone-order', path: `/api/clients/${CLIENT_A}/milestone-order`, mutates: true,
+    body: { ids: [4, 3, 5, 6, 7, 8, 9].map(n => seedId(`milestone:fairweather:${n}`)) },
+    expect: { ...clientA(200, 403), admin: { status: 200, check: r => expect(r.body.moved).toBe(2) } },
+  },
+  {
+    route: 'GET /api/training-sessions', path: '/api/training-sessions',
+    expect: {
+      anonymous: 401, handlerA: 403, handlerB: 403,
+      trainerA: { status: 200, check: r => expect(r.body.total).toBe(5) },
+      trainerB: { status: 200, check: r => expect(r.body.total).toBe(1) },
+      admin: { status: 200, check: r => expect(r.body.total).toBe(6) },
+    },
+  },
+  {
+    route: 'GET /api/dogs/[id]/reliability', path: `/api/dogs/${seedId('dog:fairweather')}/reliability`,
+    expect: { ...clientA(200), trainerA: { status: 200, check: r => expect(r.body.reliability.overall.counts.trials).toBe(30) } },
+  },
+  {
     route: 'GET /api/clients/[id]/training-log.csv', path: `/api/clients/${CLIENT_A}/training-log.csv`,
     expect: { ...clientA(200), trainerA: { status: 200, check: r => expect(String(r.body).split('\r\n')[0]).toMatch(/^session_day,stage,/) } },
   },

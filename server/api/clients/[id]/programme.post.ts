@@ -7,6 +7,8 @@ export default defineEventHandler(async (event) => {
   const { user, client } = await requireClientAccess(event, id, { staff: true })
   const input = await readValidatedJson(event, programmeCreateSchema)
   await createClientProgramme(user, client, input.templateId)
+  // Fees: the template's plan becomes the household's invoices (deposit issued now, instalments on their days), once.
+  await createPlanInvoicesOnProgrammeStart(user, client, input.templateId)
   setResponseStatus(event, 201)
   return getClientProgramme(user, client)
 })

@@ -1,0 +1,129 @@
+import { describe, expect, it } from 'vitest'
+import { addMonths, buildFeePlan, lastMonths, reminderNumberDue, revenueByMonth } from '../../shared/utils/fee-plan'
+import { invoiceTotals, parsePercent } from '../../shared/utils/money'
+import { feeScheduleFormSchema, feeScheduleSchema, invoiceDraftFormSchema } from '../../shared/schemas/fee-schedules'
+
+// Check values below are our own arithmetic on invented fees unless marked otherwise.
+const sum = (xs: number[]) => xs.reduce((a, b) => a + b, 0)
+
+describe('addMonths', () => {
+  it('keeps the day of the month and clamps to the month end', () => {
+    expect(addMonths('2026-03-15', 1)).toBe('2026-04-15')
+    expect(addMonths('2026-01-31', 1)).toBe('2026-02-28')
+    // 2028 is a leap year (Gregorian rule: divisible by 4, not by 100 unless by 400; from memory).
+    expect(addMonths('2028-01-31', 1)).toBe('2028-02-29')
+    expect(addMonths('2026-11-30', 3)).toBe('2027-02-28')
+    expect(addMonths('2026-01-15', -2)).toBe('2025-11-15')
+  })
+})
+
+describe('buildFeePlan', () => {
+  const schedule = {
+    lines: [{ description: 'Placement programme', unitMinor: 210000, taxRateBasisPoints: null }],
+    taxRateBasisPoints: 2000, depositMinor: 60000, instalmentCount: 6, intervalMonths: 1,
+  }
+
+  it('puts the deposit first on the start date and instalments monthly after it', () => {
+    const plan = buildFeePlan(schedule, '2026-01-31')
+    expect(plan.map(p => p.part)).toEqual(['deposit', 'instalment:1', 'instalment:2', 'instalment:3', 'instalment:4', 'instalment:5', 'instalment:6'])
+    expect(plan.map(p => p.issueOn)).toEqual(['2026-01-31', '2026-02-28', '2026-03-31', '2026-04-30', '2026-05-31', '2026-06-30', '2026-07-31'])
+    expect(plan[0]!.netMinor).toBe(60000)
+    // (210000 − 60000) / 6 = 25000 each.
+    expect(plan.slice(1).map(p => p.netMinor)).toEqual([25000, 25000, 25000, 25000, 25000, 25000])
+    expect(plan[1]!.lines[0]).toEqual({ description: 'Instalment 1 of 6: Placement programme', unitMinor: 25000, quantity: 1, taxRateBasisPoints: 2000 })
+  })
+
+  it('adds up to the price list exactly, the odd units on the earliest instalments', () => {
+    const plan = buildFeePlan({ ...schedule, lines: [{ description: 'Programme', unitMinor: 100001, taxRateBasisPoints: null }], depositMinor: 1, instalmentCount: 3 }, '2026-05-01')
+    // 100000 into 3: 33334, 33333, 33333.
+    expect(plan.map(p => p.netMinor)).toEqual([1, 33334, 33333, 33333])
+    expect(sum(plan.map(p => p.netMinor))).toBe(100001)
+  })
+
+  it('takes the deposit from the lines in order and keeps each line at its own tax rate', () => {
+    const plan = buildFeePlan({
+      lines: [
+        { description: 'Assessment visit', unitMinor: 15000, taxRateBasisPoints: null },
+        { description: 'Training programme', unitMinor: 180000, taxRateBasisPoints: null },
+        { description: 'Scent sample kit', unitMinor: 4001, taxRateBasisPoints: 0 },
+      ],
+      taxRateBasisPoints: 2000, depositMinor: 40000, instalmentCount: 4, intervalMonths: 2,
+    }, '2026-02-10')
+    expect(plan[0]!.lines.map(l => [l.description, l.unitMinor, l.taxRateBasisPoints])).toEqual([
+      ['Deposit: Assessment visit', 15000, 2000], ['Deposit: Training programme', 25000, 2000],
+    ])
+    // Programme rest 155000 / 4 = 38750; kit 4001 / 4 → 1001, 1000, 1000, 1000.
+    expect(plan[1]!.lines.map(l => [l.unitMinor, l.taxRateBasisPoints])).toEqual([[38750, 2000], [1001, 0]])
+    expect(plan[2]!.lines.map(l => l.unitMinor)).toEqual([38750, 1000])
+    expect(plan.map(p => p.issueOn)).toEqual(['2026-02-10', '2026-04-10', '2026-06-10', '2026-08-10', '2026-10-10'])
+    const perLine = (name: string) => sum(plan.flatMap(p => p.lines.filter(l => l.description.endsWith(name)).map(l => l.unitMinor)))
+    expect([perLine('Assessment visit'), perLine('Training programme'), perLine('Scent sample kit')]).toEqual([15000, 180000, 4001])
+    // Tax is rounded per invoice line as on any invoice: 38750 × 20 % = 7750.
+    expect(invoiceTotals(plan[1]!.lines).taxMinor).toBe(7750)
+  })
+
+  it('has no deposit invoice for a zero deposit and refuses a deposit above the total', () => {
+    expect(buildFeePlan({ ...schedule, depositMinor: 0 }, '2026-01-01')[0]!.part).toBe('instalment:1')
+    expect(() => buildFeePlan({ ...schedule, depositMinor: 210001 }, '2026-01-01')).toThrow(/deposit cannot be more/)
+    // The deposit covers it all: no empty instalments.
+    expect(buildFeePlan({ ...schedule, depositMinor: 210000 }, '2026-01-01').map(p => p.part)).toEqual(['deposit'])
+  })
+})
+
+describe('reminderNumberDue', () => {
+  // Defaults of shared/schemas/settings-invoices.ts (common practice): first after 3 days, then every 7, at most 3.
+  const policy = { enabled: true, firstAfterDaysOverdue: 3, intervalDays: 7, maxReminders: 3 }
+  it('gives one reminder number per interval, none before the first or after the last', () => {
+    expect([0, 1, 2].map(d => reminderNumberDue(d, policy))).toEqual([null, null, null])
+    expect([3, 9, 10, 16, 17, 23, 24].map(d => reminderNumberDue(d, policy))).toEqual([1, 1, 2, 2, 3, 3, null])
+    expect(reminderNumberDue(10, { ...policy, enabled: false })).toBeNull()
+  })
+})
+
+describe('revenueByMonth', () => {
+  it('sums payments per month and currency over the last 12 months, oldest first', () => {
+    expect(lastMonths('2026-03-20', 3)).toEqual(['2026-01', '2026-02', '2026-03'])
+    const r = revenueByMonth([
+      { receivedOn: '2026-03-01', currency: 'GBP', amountMinor: 1000 },
+      { receivedOn: '2026-03-31', currency: 'GBP', amountMinor: 250 },
+      { receivedOn: '2025-04-30', currency: 'GBP', amountMinor: 5 },
+      { receivedOn: '2025-03-31', currency: 'GBP', amountMinor: 99 }, // 13 months back: outside
+      { receivedOn: '2026-02-10', currency: 'EUR', amountMinor: 700 },
+    ], '2026-03-20')
+    expect(r.months).toHaveLength(12)
+    expect(r.months[0]).toBe('2025-04')
+    expect(r.byCurrency.GBP![0]).toBe(5)
+    expect(r.byCurrency.GBP![11]).toBe(1250)
+    expect(sum(r.byCurrency.GBP!)).toBe(1255)
+    expect(r.byCurrency.EUR![10]).toBe(700)
+  })
+})
+
+describe('parsePercent', () => {
+  it('reads percents into basis points and refuses the rest', () => {
+    expect(['20', '5.5', '0', '17.50', '100', '12.25 %'].map(parsePercent)).toEqual([2000, 550, 0, 1750, 10000, 1225])
+    for (const bad of ['', '-5', '100.01', '5.555', 'twenty', '1e2']) expect(() => parsePercent(bad)).toThrow(RangeError)
+  })
+})
+
+describe('fee schedule schemas', () => {
+  it('turns the typed form into the route\'s shape, with field paths on mistakes', () => {
+    const ok = feeScheduleFormSchema.safeParse({ currency: 'gbp', taxPercent: '20', deposit: '600', instalmentCount: '6', intervalMonths: '1', lines: [{ description: 'Programme', unit: '2,100.00', taxPercent: '' }] })
+    expect(ok.success && ok.data).toEqual({ currency: 'GBP', taxRateBasisPoints: 2000, depositMinor: 60000, instalmentCount: 6, intervalMonths: 1, lines: [{ description: 'Programme', unitMinor: 210000, taxRateBasisPoints: null }] })
+    expect(feeScheduleSchema.safeParse(ok.success && ok.data).success).toBe(true)
+    const bad = feeScheduleFormSchema.safeParse({ currency: 'GBP', taxPercent: '20', deposit: '3000', instalmentCount: '6', intervalMonths: '1', lines: [{ description: 'Programme', unit: '12.345' }] })
+    expect(bad.success).toBe(false)
+    expect(bad.error!.issues.map(i => i.path.join('.'))).toContain('lines.0.unit')
+    const tooMuch = feeScheduleSchema.safeParse({ currency: 'GBP', taxRateBasisPoints: 2000, depositMinor: 5, instalmentCount: 1, intervalMonths: 1, lines: [{ description: 'x', unitMinor: 4 }] })
+    expect(tooMuch.success).toBe(false)
+    expect(feeScheduleSchema.safeParse({ currency: 'ZZZ', taxRateBasisPoints: 0, depositMinor: 0, instalmentCount: 1, intervalMonths: 1, lines: [{ description: 'x', unitMinor: 4 }] }).success).toBe(false)
+  })
+
+  it('checks the invoice draft form with the invoice line rules', () => {
+    const ok = invoiceDraftFormSchema('GBP').safeParse({ lines: [{ description: 'Extra session', unit: '45', quantity: '2', taxPercent: '20' }] })
+    expect(ok.success && ok.data).toEqual({ notes: null, lines: [{ description: 'Extra session', unitMinor: 4500, quantity: 2, taxRateBasisPoints: 2000 }] })
+    const bad = invoiceDraftFormSchema('JPY').safeParse({ lines: [{ description: '', unit: '10.5', quantity: '0', taxPercent: 'x' }] })
+    expect(bad.success).toBe(false)
+    expect(bad.error!.issues.map(i => i.path.join('.')).sort()).toEqual(['lines.0.description', 'lines.0.quantity', 'lines.0.taxPercent', 'lines.0.unit'])
+  })
+})
