@@ -90,6 +90,22 @@ export async function listInvoices(user: AuthUser, query: { status?: string, cli
   return { rows: shown, owed, today, locale: business.locale }
 }
 
+/**
+ * The instalments of a fee plan still to be issued, soonest first: for a household, what is coming and when (only
+ * the day, the amount and which part of the plan; the draft itself stays the office's until it is issued).
+ */
+export async function listUpcomingInstalments(user: AuthUser) {
+  const db = useDb()
+  const { business } = await readInvoiceSettings(db)
+  const rows = await db.select({
+    id: invoices.id, clientId: invoices.clientId, householdName: clients.householdName, planPart: invoices.planPart,
+    issueOn: invoices.scheduledIssueOn, grossMinor: invoices.grossMinor, currency: invoices.currency,
+  }).from(invoices).innerJoin(clients, eq(clients.id, invoices.clientId))
+    .where(and(clientScope(user), eq(invoices.status, 'draft'), sql`${invoices.scheduledIssueOn} is not null`))
+    .orderBy(asc(invoices.scheduledIssueOn), asc(invoices.id)).limit(200)
+  return { rows: rows.map(({ id, ...r }) => (user.role === 'handler' ? r : { id, ...r })), locale: business.locale }
+}
+
 /** One invoice with its lines, payments, credit notes and what the page needs to print it. */
 export async function getInvoiceDetail(user: AuthUser, invoice: InvoiceRow, client: ClientRow) {
   const db = useDb()

@@ -53,15 +53,17 @@ for (const viewport of [{ name: 'phone', size: PHONE }, { name: 'desktop', size:
     test(`${role.who} pages render on a ${viewport.name}`, async ({ page }) => {
       test.setTimeout(120_000) // a dozen pages per role, on a shared 2-core machine
       const problems: string[] = []
-      page.on('pageerror', e => problems.push(e.message))
+      let current = '(sign-in)'
+      page.on('pageerror', e => problems.push(`${current}: ${e.message}`))
       // Failed requests are judged by their URL below; a dog without a photo answers 404 by design.
-      page.on('console', (m) => { if (m.type() === 'error' && !m.text().startsWith('Failed to load resource')) problems.push(m.text()) })
+      page.on('console', (m) => { if (m.type() === 'error' && !m.text().startsWith('Failed to load resource')) problems.push(`${current}: ${m.text()}`) })
       page.on('response', (r) => {
         if (r.status() >= 400 && !(r.status() === 404 && /\/api\/dogs\/[^/]+\/photo/.test(r.url()))) problems.push(`${r.status()} ${r.url()}`)
       })
       await page.setViewportSize(viewport.size)
       await signInAs(page, role.email)
       for (const p of role.pages) {
+        current = p.path
         await page.goto(p.path)
         await expect(page.getByRole('heading', { level: 1 })).toContainText(p.heading)
         await page.waitForLoadState('networkidle')

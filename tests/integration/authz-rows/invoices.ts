@@ -23,6 +23,16 @@ export const rows: Row[] = [
       trainerB: { status: 200, check: r => expect(r.body.rows.some((x: any) => x.householdName === 'Fairweather household')).toBe(false) },
     },
   },
+  {
+    route: 'GET /api/invoices/upcoming', path: '/api/invoices/upcoming',
+    expect: {
+      ...signedIn(200),
+      // A household sees its own plan's instalments to come (seeded for Fairweather and Achterberg), never another's.
+      handlerA: { status: 200, check: (r) => { expect(r.body.rows.length).toBeGreaterThan(0); expect(r.body.rows.every((x: any) => x.householdName === 'Fairweather household' && !('id' in x))).toBe(true) } },
+      handlerB: { status: 200, check: (r) => { expect(r.body.rows.length).toBeGreaterThan(0); expect(r.body.rows.every((x: any) => x.householdName === 'Achterberg household')).toBe(true) } },
+      trainerB: { status: 200, check: r => expect(r.body.rows.some((x: any) => x.householdName === 'Fairweather household')).toBe(false) },
+    },
+  },
   { route: 'GET /api/invoices/[id]', path: `/api/invoices/${OPEN_A}`, expect: clientA(200) },
   { route: 'POST /api/clients/[id]/invoices', path: `/api/clients/${CLIENT_A}/invoices`, body: { lines: [{ description: 'Extra session', unitMinor: 4500, quantity: 1, taxRateBasisPoints: 0 }] }, mutates: true, expect: adminOnly(201) },
   { route: 'POST /api/invoices/[id]/issue', path: (_a, ctx) => `/api/invoices/${ctx.id}/issue`, prepare: draftForA, mutates: true, expect: adminOnly(200) },
