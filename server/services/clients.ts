@@ -1,9 +1,9 @@
-import { and, asc, count, desc, eq, exists, lt, or, sql, type SQL } from 'drizzle-orm'
+import { and, asc, count, desc, eq, exists, isNull, lt, or, sql, type SQL } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/sqlite-core'
 import { auditLog, clientHandlers, clients, dogs, invitations, users } from '../database/schema'
 import type { ClientListQuery, IntakeInput } from '../../shared/schemas/clients'
 import type { AuthUser } from '../utils/authz'
-import type { Tx } from '../utils/db'
+import type { DbOrTx, Tx } from '../utils/db'
 
 type ClientRow = typeof clients.$inferSelect
 const trainer = alias(users, 'trainer')
@@ -140,8 +140,7 @@ export async function reassignClient(admin: AuthUser, client: ClientRow, trainer
     const next = await requireActiveTrainer(tx, trainerId)
     const [prev] = await tx.select().from(users).where(eq(users.id, client.trainerId))
     const [row] = await tx.update(clients).set({ trainerId }).where(eq(clients.id, client.id)).returning()
-    const handlers = await tx.select({ name: users.name, email: users.email }).from(clientHandlers)
-      .innerJoin(users, eq(users.id, clientHandlers.userId)).where(eq(clientHandlers.clientId, client.id))
+    const handlers = await householdHandlers(tx, client.id)
     const extra = note ? [`Note from the office: ${note}`] : []
     const link = { label: 'Open the client file', url: appUrl(`/trainer/clients/${client.id}`) }
     await queueEmail(tx, { to: next.email, ...composeEmail({ subject: `${client.householdName} is now on your roster`, greeting: `Hello ${next.name},`, paragraphs: [`${admin.name} has moved ${client.householdName} to you${prev ? ` from ${prev.name}` : ''}.`, ...extra], action: link }) })
@@ -167,3 +166,10 @@ export async function clientActivity(clientId: string, opts: { before?: number, 
   return { items, nextBefore: more ? items[items.length - 1]!.id : null }
 }
 
+
+/** The household's handlers (the people e-mails about it go to); `activeOnly` leaves out disabled accounts. */
+export function householdHandlers(db: DbOrTx, clientId: string, opts: { activeOnly?: boolean } = {}) {
+  return db.select({ id: users.id, email: users.email, name: users.name }).from(clientHandlers)
+    .innerJoin(users, eq(users.id, clientHandlers.userId))
+    .where(and(eq(clientHandlers.clientId, clientId), opts.activeOnly ? isNull(users.disabledAt) : undefined))
+}

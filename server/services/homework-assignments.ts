@@ -3,7 +3,7 @@
 // shared/utils/homework.ts; the review half is in homework-review.ts; uploads and video files in the upload code.
 import type { H3Event } from 'h3'
 import { and, asc, count, eq, inArray, isNull, min, sql } from 'drizzle-orm'
-import { clientHandlers, clientMilestones, clients, dogs, homeworkAssignments, homeworkComments, homeworkExercises, homeworkVideos, users } from '../database/schema'
+import { clientMilestones, clients, dogs, homeworkAssignments, homeworkComments, homeworkExercises, homeworkVideos, users } from '../database/schema'
 import type { AssignmentCreateInput, AssignmentUpdateInput, ExerciseInput } from '../../shared/schemas/homework'
 import { businessProfile, businessProfileSchema } from '../../shared/schemas/settings-business'
 import { HOMEWORK_UPLOAD_POLICY_DEFAULTS, HOMEWORK_UPLOAD_POLICY_KEY, homeworkUploadPolicySchema } from '../../shared/schemas/settings-homework'
@@ -196,9 +196,7 @@ export async function cancelHomeworkAssignment(user: AuthUser, assignment: Assig
 }
 
 export function homeworkHouseholdHandlers(db: DbOrTx, clientId: string) {
-  return db.select({ id: users.id, email: users.email, name: users.name }).from(clientHandlers)
-    .innerJoin(users, eq(users.id, clientHandlers.userId))
-    .where(and(eq(clientHandlers.clientId, clientId), isNull(users.disabledAt)))
+  return householdHandlers(db, clientId, { activeOnly: true })
 }
 
 // ---------------------------------------------------------------------------------------------------------------

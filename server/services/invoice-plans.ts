@@ -10,7 +10,8 @@ import { formatMoney, lineTotals } from '../../shared/utils/money'
 import { todayInTimeZone } from '../../shared/utils/dogs'
 import type { AuthUser } from '../utils/authz'
 import type { Tx } from '../utils/db'
-import { householdEmails, issueDraftInTx, readInvoiceSettings } from './invoices'
+import { issueDraftInTx, readInvoiceSettings } from './invoices'
+import { householdHandlers } from './clients'
 
 type ClientRow = typeof clients.$inferSelect
 export type FeeScheduleRow = typeof feeSchedules.$inferSelect
@@ -155,7 +156,7 @@ async function sendOverdueReminders(today: string, limit: number) {
         .where(and(eq(invoices.id, invoice.id), eq(invoices.status, 'open'), eq(invoices.remindersSent, invoice.remindersSent))).returning({ id: invoices.id })
       if (!row) return false
       const amount = formatMoney(owed, invoice.currency, business.locale)
-      for (const h of await householdEmails(tx, client.id)) {
+      for (const h of await householdHandlers(tx, client.id)) {
         await queueEmail(tx, {
           to: h.email, dedupeKey: `invoice-reminder:${invoice.id}:${k}:${h.email}`,
           ...composeEmail({

@@ -2,7 +2,7 @@
 // each change in one transaction with its audit entry and its e-mail (outbox).
 import type { H3Event } from 'h3'
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm'
-import { clientHandlers, clients, invoiceCounters, invoiceLines, invoicePayments, invoices, users } from '../database/schema'
+import { clients, invoiceCounters, invoiceLines, invoicePayments, invoices, users } from '../database/schema'
 import type { InvoiceCreateInput, ManualPaymentInput } from '../../shared/schemas/invoices'
 import { businessProfile, businessProfileSchema, type BusinessProfile } from '../../shared/schemas/settings-business'
 import { INVOICE_POLICY_DEFAULTS, INVOICE_POLICY_KEY, invoicePolicySchema, type InvoicePolicy } from '../../shared/schemas/settings-invoices'
@@ -167,12 +167,6 @@ async function nextInvoiceSeq(tx: Tx, year: number): Promise<number> {
   return row!.seq
 }
 
-export async function householdEmails(tx: DbOrTx, clientId: string) {
-  const rows = await tx.select({ email: users.email, name: users.name }).from(clientHandlers)
-    .innerJoin(users, eq(users.id, clientHandlers.userId)).where(eq(clientHandlers.clientId, clientId))
-  return rows
-}
-
 /** Draft → open: numbers the invoice, dates it, and e-mails the household (with the PDF attached). */
 export async function issueInvoice(user: AuthUser, invoice: InvoiceRow, client: ClientRow) {
   if (!canIssue(invoice.status)) invoiceConflict(`This invoice is ${invoice.status}; only a draft can be issued.`)
@@ -201,7 +195,7 @@ export async function issueDraftInTx(tx: Tx, actorId: string | null, invoiceId: 
     status: 'open', number, numberYear: year, numberSeq: seq, issueDate, dueDate: addDays(issueDate, current.dueInDays), issuedAt: new Date(), scheduledIssueOn: null,
   }).where(and(eq(invoices.id, invoiceId), eq(invoices.status, 'draft'))).returning()
   if (!row) return null
-  for (const h of await householdEmails(tx, client.id)) {
+  for (const h of await householdHandlers(tx, client.id)) {
     await queueEmail(tx, {
       to: h.email, dedupeKey: `invoice-issued:${row.id}:${h.email}`,
       attachments: [{ kind: 'invoice-pdf', id: row.id }],
@@ -314,7 +308,7 @@ export async function queueInvoiceReceipt(tx: Tx, invoice: InvoiceRow, client: C
   const { business } = await readInvoiceSettings(tx)
   const amount = formatMoney(payment.amountMinor, invoice.currency, business.locale)
   const left = balanceDue(invoice.grossMinor, invoice.paidMinor)
-  for (const h of await householdEmails(tx, client.id)) {
+  for (const h of await householdHandlers(tx, client.id)) {
     await queueEmail(tx, {
       to: h.email, dedupeKey: `invoice-receipt:${payment.id}:${h.email}`,
       ...composeEmail({

@@ -3,7 +3,7 @@
 // shared/utils/training.ts and shared/utils/stats.ts.
 import type { H3Event } from 'h3'
 import { and, asc, desc, eq, gte, inArray, isNull, lte, or, sql, type SQL } from 'drizzle-orm'
-import { clientHandlers, clientMilestones, clients, dogs, homeworkAssignments, programmeTemplates, sampleUses, samples, trainingSessions, trainingTrials, users } from '../database/schema'
+import { clientMilestones, clients, dogs, homeworkAssignments, programmeTemplates, sampleUses, samples, trainingSessions, trainingTrials, users } from '../database/schema'
 import type { MilestoneAddInput, MilestoneUpdateInput, SessionCreateInput, SessionListQuery, TemplateUpdateInput, TrialInput } from '../../shared/schemas/training'
 import { TRAINING_POLICY_DEFAULTS, TRAINING_POLICY_KEY } from '../../shared/schemas/settings-training'
 import { criteriaSchema } from '../../shared/schemas/training'
@@ -266,7 +266,7 @@ export async function confirmMilestone(user: AuthUser, milestone: MilestoneRow, 
       actorId: user.id, action: 'milestone.confirmed', entityType: 'milestone', entityId: row.id, clientId: client.id,
       data: { name: row.name, reason, unmet: unmet.map(c => c.key) },
     })
-    const handlers = await tx.select({ email: users.email, name: users.name }).from(clientHandlers).innerJoin(users, eq(users.id, clientHandlers.userId)).where(eq(clientHandlers.clientId, client.id))
+    const handlers = await householdHandlers(tx, client.id)
     for (const h of handlers) {
       await queueEmail(tx, { to: h.email, ...milestoneEmail(h.name, client, row, next), dedupeKey: `milestone:${row.id}:${h.email}` })
     }
