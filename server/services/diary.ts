@@ -83,7 +83,7 @@ export async function getClientDiary(user: AuthUser, client: ClientRow) {
   ])
   const { window, source } = effectiveWindow(override, policy, client.condition)
   const points: DiaryPoint[] = rows.map(r => r.entry)
-  const match = matchEntries(points, window)
+  const match = matchEntries(points, window, { minLeadMinutes: policy.minLeadMinutes })
   const alertMatch = new Map(match.alerts.map(a => [a.id, a]))
   const episodeMatch = new Map(match.episodes.map(e => [e.id, e]))
   const now = new Date()
@@ -92,7 +92,7 @@ export async function getClientDiary(user: AuthUser, client: ClientRow) {
   const canStaff = user.role !== 'handler'
   return {
     client: { id: client.id, householdName: client.householdName, personName: client.personName, condition: client.condition, dogName: dog?.name ?? null },
-    window: { ...window, source, policy: policy[client.condition] },
+    window: { ...window, source, policy: policy[client.condition], minLeadMinutes: policy.minLeadMinutes },
     summaryDays: policy.summaryDays,
     episodeNoun: CONDITION_EPISODE_NOUNS[client.condition],
     minEpisodesForEvidence: MIN_EPISODES_FOR_EVIDENCE,
@@ -106,8 +106,8 @@ export async function getClientDiary(user: AuthUser, client: ClientRow) {
       createdByName,
       reviewedByName,
       match: entry.kind === 'alert'
-        ? { isTrue: alertMatch.get(entry.id)?.isTrue ?? false, episodeIds: alertMatch.get(entry.id)?.matchedEpisodeIds ?? [] }
-        : { warned: episodeMatch.get(entry.id)?.warned ?? false, alertIds: episodeMatch.get(entry.id)?.alertIds ?? [], leadMinutes: episodeMatch.get(entry.id)?.leadMinutes ?? null },
+        ? { isTrue: alertMatch.get(entry.id)?.isTrue ?? false, outcome: alertMatch.get(entry.id)?.outcome ?? 'false', episodeId: alertMatch.get(entry.id)?.episodeId ?? null }
+        : { warned: episodeMatch.get(entry.id)?.warned ?? false, alertIds: episodeMatch.get(entry.id)?.alertIds ?? [], atOnsetAlertIds: episodeMatch.get(entry.id)?.atOnsetAlertIds ?? [], leadMinutes: episodeMatch.get(entry.id)?.leadMinutes ?? null },
     })),
     canReview: canStaff,
     canSetWindow: canStaff,
@@ -140,10 +140,10 @@ export async function diaryRosterFigures(clientIds: string[]): Promise<Map<strin
     const first = list[0]!
     const override = first.minMinutes !== null && first.maxMinutes !== null ? { minMinutes: first.minMinutes, maxMinutes: first.maxMinutes } : null
     const { window } = effectiveWindow(override, policy, first.condition)
-    const match = matchEntries(list, window)
+    const match = matchEntries(list, window, { minLeadMinutes: policy.minLeadMinutes })
     const t = periodTotals(list, match, new Date(since))
     out.set(clientId, {
-      episodes: t.episodes, warned: t.warnedEpisodes, alerts: t.alerts, trueAlerts: t.trueAlerts,
+      episodes: t.episodes, warned: t.warnedEpisodes, alerts: t.alerts, trueAlerts: t.trueAlerts, atOnsetAlerts: t.atOnsetAlerts,
       medianLeadMinutes: t.leadMinutes?.median ?? null, enoughEvidence: t.episodes >= MIN_EPISODES_FOR_EVIDENCE, days: policy.summaryDays,
     })
   }
@@ -171,7 +171,7 @@ async function diaryFollowUp(tx: Tx, clientId: string) {
     readDiaryPolicy(tx),
   ])
   const { window } = effectiveWindow(override, policy, client.client.condition)
-  const check = refresherCheck(points, matchEntries(points, window), policy, new Date())
+  const check = refresherCheck(points, matchEntries(points, window, { minLeadMinutes: policy.minLeadMinutes }), policy, new Date())
   if (!check.due) return
   const appUrl = useRuntimeConfig().appUrl
   const earlier = check.earlierShare === null ? '' : ` Before that it was ${percent(check.earlierShare)}.`

@@ -1,7 +1,7 @@
 // The alert diary's policy: the warning window per condition (a trainer may set a client's own), the period the
 // summaries cover, and when the trainer is e-mailed to plan a refresher.
 import { z } from 'zod'
-import { DEFAULT_ALERT_WINDOWS } from '../utils/alerts'
+import { DEFAULT_ALERT_WINDOWS, DEFAULT_MIN_LEAD_MINUTES } from '../utils/alerts'
 import { MAX_WINDOW_MINUTES, windowProblems } from '../utils/diary'
 import { defineSetting } from './settings'
 
@@ -18,6 +18,7 @@ export const diaryPolicySchema = z.object({
   recentDays: z.coerce.number().int('Use whole days.').min(7, 'Use at least 7 days.').max(365, 'Use at most 365 days.'),
   minRecentEpisodes: z.coerce.number().int('Use a whole number.').min(1, 'Use at least 1.').max(100, 'Use at most 100.'),
   refresherBelowPercent: z.coerce.number().min(1, 'Use 1 to 100 percent.').max(100, 'Use 1 to 100 percent.'),
+  minLeadMinutes: z.coerce.number({ invalid_type_error: 'Enter a number of minutes.' }).int('Use whole minutes.').min(0, 'Use 0 or more minutes.').max(60, 'Use at most 60 minutes.'),
   migraine: windowSchema,
   hypoglycaemia: windowSchema,
   seizure: windowSchema,
@@ -35,6 +36,9 @@ export const DIARY_POLICY_DEFAULTS: DiaryPolicy = {
   recentDays: 30,
   minRecentEpisodes: 5,
   refresherBelowPercent: 60,
+  // An alert less than a minute before onset (logged in the same minute) is an alert at onset, not a warning
+  // (common practice).
+  minLeadMinutes: DEFAULT_MIN_LEAD_MINUTES,
   // Windows per condition: see DEFAULT_ALERT_WINDOWS in shared/utils/alerts.ts for each one's source.
   migraine: { ...DEFAULT_ALERT_WINDOWS.migraine },
   hypoglycaemia: { ...DEFAULT_ALERT_WINDOWS.hypoglycaemia },
@@ -44,7 +48,7 @@ export const DIARY_POLICY_DEFAULTS: DiaryPolicy = {
 
 export const diaryPolicy = defineSetting(DIARY_POLICY_KEY, {
   label: 'Alert diary',
-  description: 'How long before an episode an alert counts as a warning of it (per condition; a trainer can set a client\'s own), the period the diary summaries cover, and when the trainer is e-mailed to plan a refresher because fewer episodes were warned of.',
+  description: 'How long before an episode an alert counts as a warning of it (per condition; a trainer can set a client\'s own), the least lead of a warning (closer alerts are shown as "at onset"), the period the diary summaries cover, and when the trainer is e-mailed to plan a refresher because fewer episodes were warned of.',
   schema: diaryPolicySchema,
   defaults: DIARY_POLICY_DEFAULTS,
   fieldLabels: {
@@ -52,6 +56,7 @@ export const diaryPolicy = defineSetting(DIARY_POLICY_KEY, {
     recentDays: 'Refresher check: recent period (days)',
     minRecentEpisodes: 'Refresher check: at least this many episodes',
     refresherBelowPercent: 'Refresher when warned of below (%)',
+    minLeadMinutes: 'Least lead of a warning (minutes before onset; closer is "at onset")',
     migraine: 'Migraine window (minutes before onset)',
     hypoglycaemia: 'Hypoglycaemia window (minutes before onset)',
     seizure: 'Seizure window (minutes before onset)',

@@ -50,19 +50,35 @@ export const DEFAULT_ALERT_WINDOWS: Record<Condition, AlertWindow> = {
  */
 export const MIN_EPISODES_FOR_EVIDENCE = 10
 
+/**
+ * The least lead an alert needs to count as a warning: an alert logged less than this before onset (typically in
+ * the same minute, because the handler tapped both buttons together) warned of nothing in time. A policy (setting
+ * `diary`, `minLeadMinutes`); 1 minute by default (common practice).
+ */
+export const DEFAULT_MIN_LEAD_MINUTES = 1
+
+/** What one alert turned out to be. */
+export type AlertOutcome = 'warning' | 'at-onset' | 'false'
+
 export interface MatchedAlert {
   id: string
-  /** Episodes whose window this alert falls in, by onset (earliest first). */
-  matchedEpisodeIds: string[]
+  /** 'warning': its next episode's onset came within the window; 'at-onset': too close to onset to warn (see
+   *  matchAlerts); 'false': no episode followed within the window. */
+  outcome: AlertOutcome
+  /** The one episode this alert is credited to (its next episode), for a warning or an alert at onset; else null. */
+  episodeId: string | null
+  /** outcome === 'warning'. */
   isTrue: boolean
 }
 
 export interface MatchedEpisode {
   id: string
-  /** Alerts in this episode's window, by time (earliest first). */
+  /** Alerts credited to this episode as warnings, by time (earliest first). */
   alertIds: string[]
+  /** Alerts at this episode's onset (too late to warn), by time. */
+  atOnsetAlertIds: string[]
   warned: boolean
-  /** Minutes from the earliest alert in the window to onset; null when not warned of. */
+  /** Minutes from the earliest warning to onset; null when not warned of. */
   leadMinutes: number | null
 }
 
@@ -78,11 +94,16 @@ export interface DiaryMatch {
   totals: {
     alerts: number
     episodes: number
+    /** Alerts that warned of an episode (true positives). */
     trueAlerts: number
+    /** Alerts at onset: an episode followed, but too soon to be a warning. Shown apart; not true alerts. */
+    atOnsetAlerts: number
+    /** Alerts with no episode in the window after them (false positives). alerts = true + at onset + false. */
+    falseAlerts: number
     warnedEpisodes: number
-    /** Share of episodes warned of (Wilson interval), null with no episodes. */
+    /** Sensitivity: episodes warned of / episodes (Wilson interval), null with no episodes. */
     warnedShare: ProportionInterval | null
-    /** Share of alerts that were true (Wilson interval), null with no alerts. */
+    /** Positive predictive value: true alerts / alerts (Wilson interval), null with no alerts. */
     positivePredictiveValue: ProportionInterval | null
     /** Median and quartiles (type-7 quantiles) of the lead times of warned episodes; null when none. */
     leadMinutes: LeadTimeSummary | null
@@ -123,41 +144,55 @@ function checkUniqueIds(items: readonly { id: string }[], what: string): void {
   }
 }
 
+export interface MatchOptions {
+  /** The least lead of a warning, in minutes (policy; DEFAULT_MIN_LEAD_MINUTES when left out). */
+  minLeadMinutes?: number
+}
+
 /**
- * Matches diary alerts to episodes.
+ * Matches diary alerts to episodes. One alert is credited to at most one episode: its NEXT episode.
  *
- * Rules:
- * - An alert at time t falls in the window of an episode with onset o when o - maxMinutes ≤ t ≤ o - minMinutes,
- *   both ends included. An alert after onset - minMinutes (in particular after onset) never counts.
- * - An alert is true when at least one episode's window holds it. If the windows of two close episodes both hold
- *   it, it counts once as a true alert (trueAlerts counts alerts, not pairs) and is listed against both episodes,
- *   so each of them is warned of: the dog's one warning preceded both.
- * - An episode is warned of when at least one alert falls in its window. Its lead time is from its EARLIEST alert
- *   in the window to onset, in minutes (not rounded).
- * - Totals: positivePredictiveValue = true alerts / alerts; warnedShare = warned episodes / episodes, each with
- *   its 95% Wilson interval; leadMinutes = median and quartiles (type-7) of the warned episodes' lead times.
+ * Rules, with m = minLeadMinutes and nearest = max(window.minMinutes, m):
+ * - An alert's next episode is the earliest onset o with o ≥ t, or o > t − m when m > 0 (an onset logged less than
+ *   m minutes before the alert is the same moment: the handler tapped both buttons together). Ties in onset: the
+ *   first in input order. Later episodes are never credited with this alert, however close they follow.
+ * - lead = o − t. With nearest ≤ lead ≤ window.maxMinutes (both ends included) the alert is a WARNING of that
+ *   episode (a true alert). With lead < nearest it is an alert AT ONSET: an episode came, but too soon for the
+ *   alert to have warned; it is listed against the episode apart from warnings. Otherwise (no next episode, or it
+ *   came later than maxMinutes) the alert is FALSE.
+ * - An episode is warned of when at least one warning is credited to it; its lead time runs from its earliest
+ *   warning to onset, in minutes (not rounded). An earlier episode can never "take" an alert that came after it.
+ * - Totals: warnedShare (sensitivity) = warned episodes / episodes; positivePredictiveValue = true alerts / alerts
+ *   (alerts at onset count as alerts that did not warn), each with its 95% Wilson interval (Altman & Bland 1994,
+ *   BMJ 309:102 for PPV); leadMinutes = median and quartiles (type-7) of the warned episodes' lead times.
  *
  * Alerts and episodes may come in any order; the output lists them in input order. All arithmetic is on UTC
  * instants (Date.getTime()), so time zones and daylight-saving changes cannot shift anything.
  *
- * Throws RangeError for an invalid window (see validateAlertWindow), an invalid Date, or a repeated id.
+ * Throws RangeError for an invalid window (see validateAlertWindow) or minimum lead, an invalid Date, or a
+ * repeated id.
  */
 export function matchAlerts(
   alerts: readonly DiaryAlert[],
   episodes: readonly DiaryEpisode[],
   window: AlertWindow,
+  options: MatchOptions = {},
 ): DiaryMatch {
   validateAlertWindow(window)
+  const minLead = options.minLeadMinutes ?? DEFAULT_MIN_LEAD_MINUTES
+  if (!Number.isFinite(minLead) || minLead < 0) {
+    throw new RangeError(`The least lead of a warning must be 0 or more minutes (got ${minLead}).`)
+  }
   checkUniqueIds(alerts, 'Alert')
   checkUniqueIds(episodes, 'Episode')
   const alertTimes = alerts.map((alert) => instantOf(alert.at, `Alert "${alert.id}"`))
   const onsetTimes = episodes.map((episode) => instantOf(episode.onsetAt, `Episode "${episode.id}"`))
-  const minMs = window.minMinutes * MS_PER_MINUTE
+  const minLeadMs = Math.round(minLead * MS_PER_MINUTE)
+  const nearestMs = Math.max(window.minMinutes * MS_PER_MINUTE, minLeadMs)
   const maxMs = window.maxMinutes * MS_PER_MINUTE
 
-  // Episode indices by onset (ties keep input order), so each alert looks only at the onsets that can match it:
-  // at + min ≤ onset ≤ at + max.
-  const byOnset = episodes.map((_, index) => index).sort((a, b) => (onsetTimes[a] as number) - (onsetTimes[b] as number))
+  // Episode indices by onset (ties keep input order), searched for each alert's next episode.
+  const byOnset = episodes.map((_, index) => index).sort((a, b) => (onsetTimes[a] as number) - (onsetTimes[b] as number) || a - b)
   const firstOnsetAtOrAfter = (time: number): number => {
     let low = 0
     let high = byOnset.length
@@ -169,23 +204,28 @@ export function matchAlerts(
     return low
   }
 
-  const episodeAlertIndices: number[][] = episodes.map(() => [])
+  const warnings: number[][] = episodes.map(() => [])
+  const atOnset: number[][] = episodes.map(() => [])
   const matchedAlerts: MatchedAlert[] = alerts.map((alert, alertIndex) => {
     const at = alertTimes[alertIndex] as number
-    const matchedEpisodeIds: string[] = []
-    for (let k = firstOnsetAtOrAfter(at + minMs); k < byOnset.length; k++) {
-      const episodeIndex = byOnset[k] as number
-      if ((onsetTimes[episodeIndex] as number) > at + maxMs) break
-      matchedEpisodeIds.push((episodes[episodeIndex] as DiaryEpisode).id)
-      ;(episodeAlertIndices[episodeIndex] as number[]).push(alertIndex)
+    // Onset ≥ at, or within the last minLead before it (times are whole milliseconds: o > t − m ⇔ o ≥ t − m + 1).
+    const k = firstOnsetAtOrAfter(minLeadMs > 0 ? at - minLeadMs + 1 : at)
+    const next = byOnset[k]
+    if (next === undefined) return { id: alert.id, outcome: 'false', episodeId: null, isTrue: false }
+    const lead = (onsetTimes[next] as number) - at
+    if (lead > maxMs) return { id: alert.id, outcome: 'false', episodeId: null, isTrue: false }
+    const episodeId = (episodes[next] as DiaryEpisode).id
+    if (lead < nearestMs) {
+      ;(atOnset[next] as number[]).push(alertIndex)
+      return { id: alert.id, outcome: 'at-onset', episodeId, isTrue: false }
     }
-    return { id: alert.id, matchedEpisodeIds, isTrue: matchedEpisodeIds.length > 0 }
+    ;(warnings[next] as number[]).push(alertIndex)
+    return { id: alert.id, outcome: 'warning', episodeId, isTrue: true }
   })
 
+  const byTime = (list: number[]) => [...list].sort((a, b) => (alertTimes[a] as number) - (alertTimes[b] as number) || a - b)
   const matchedEpisodes: MatchedEpisode[] = episodes.map((episode, episodeIndex) => {
-    const indices = [...(episodeAlertIndices[episodeIndex] as number[])].sort(
-      (a, b) => (alertTimes[a] as number) - (alertTimes[b] as number) || a - b,
-    )
+    const indices = byTime(warnings[episodeIndex] as number[])
     const earliest = indices[0]
     const leadMinutes =
       earliest === undefined
@@ -194,6 +234,7 @@ export function matchAlerts(
     return {
       id: episode.id,
       alertIds: indices.map((index) => (alerts[index] as DiaryAlert).id),
+      atOnsetAlertIds: byTime(atOnset[episodeIndex] as number[]).map((index) => (alerts[index] as DiaryAlert).id),
       warned: earliest !== undefined,
       leadMinutes,
     }
@@ -204,10 +245,11 @@ export function matchAlerts(
 
 /**
  * The totals of matched alerts and episodes (any subset of one matchAlerts result, e.g. a recent period: an
- * alert keeps its truth and an episode its lead from the whole diary's matching).
+ * alert keeps its outcome and an episode its lead from the whole diary's matching).
  */
 export function diaryTotals(alerts: readonly MatchedAlert[], episodes: readonly MatchedEpisode[]): DiaryMatch['totals'] {
-  const trueAlerts = alerts.filter((alert) => alert.isTrue).length
+  const trueAlerts = alerts.filter((alert) => alert.outcome === 'warning').length
+  const atOnsetAlerts = alerts.filter((alert) => alert.outcome === 'at-onset').length
   const warnedEpisodes = episodes.filter((episode) => episode.warned).length
   const leads = episodes.flatMap((episode) => (episode.leadMinutes === null ? [] : [episode.leadMinutes]))
   const leadMedian = quantile(leads, 0.5)
@@ -215,6 +257,8 @@ export function diaryTotals(alerts: readonly MatchedAlert[], episodes: readonly 
     alerts: alerts.length,
     episodes: episodes.length,
     trueAlerts,
+    atOnsetAlerts,
+    falseAlerts: alerts.length - trueAlerts - atOnsetAlerts,
     warnedEpisodes,
     warnedShare: wilsonInterval(warnedEpisodes, episodes.length),
     positivePredictiveValue: wilsonInterval(trueAlerts, alerts.length),

@@ -5,7 +5,7 @@
 // Caution: an alert dog supplements and never replaces medical care; the person acts on their clinician's advice,
 // not only on the dog. These figures describe the dog's record, nothing more.
 
-import { diaryTotals, matchAlerts, summariseDiary, type AlertWindow, type DiaryMatch, type MatchedEpisode } from './alerts'
+import { diaryTotals, matchAlerts, summariseDiary, type AlertWindow, type DiaryMatch, type MatchOptions, type MatchedEpisode } from './alerts'
 import { TZDate } from '@date-fns/tz'
 import type { Condition } from './enums'
 import { quantile } from './stats'
@@ -74,11 +74,15 @@ export function effectiveWindow(
 
 export interface DiaryPoint { id: string, kind: DiaryKind, occurredAt: Date }
 
-/** Splits diary entries into the alerts and episodes matchAlerts takes, and matches them. */
-export function matchEntries(entries: readonly DiaryPoint[], window: AlertWindow): DiaryMatch {
+/**
+ * Splits diary entries into the alerts and episodes matchAlerts takes, and matches them (each alert credited to its
+ * next episode only; `options.minLeadMinutes` from the diary policy). Every figure of the diary — the summary, the
+ * chart by month, the roster column and the refresher check — comes from this one matching.
+ */
+export function matchEntries(entries: readonly DiaryPoint[], window: AlertWindow, options: MatchOptions = {}): DiaryMatch {
   const alerts = entries.filter(e => e.kind === 'alert').map(e => ({ id: e.id, at: e.occurredAt }))
   const episodes = entries.filter(e => e.kind === 'episode').map(e => ({ id: e.id, onsetAt: e.occurredAt }))
-  return matchAlerts(alerts, episodes, window)
+  return matchAlerts(alerts, episodes, window, options)
 }
 
 export const DAY_MS = 86_400_000

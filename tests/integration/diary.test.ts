@@ -62,7 +62,7 @@ describe('logging and reading the diary', () => {
     expect(after.period.sentence).not.toBe(before.period.sentence)
     // Newest first; the alert is marked true and the episode warned of, 90 min ahead (migraine window 0–240 min).
     expect(after.entries[0]).toMatchObject({ id: e.id, kind: 'episode', createdByName: 'Ada Fairweather', match: { warned: true, alertIds: [a.id], leadMinutes: 90 } })
-    expect(after.entries[1]).toMatchObject({ id: a.id, kind: 'alert', match: { isTrue: true, episodeIds: [e.id] } })
+    expect(after.entries[1]).toMatchObject({ id: a.id, kind: 'alert', match: { isTrue: true, outcome: 'warning', episodeId: e.id } })
     expect(after.window).toMatchObject({ minMinutes: 0, maxMinutes: 240, source: 'policy' })
   })
 

@@ -2,6 +2,7 @@ import { TZDate } from '@date-fns/tz'
 import { describe, expect, it } from 'vitest'
 import {
   DEFAULT_ALERT_WINDOWS,
+  DEFAULT_MIN_LEAD_MINUTES,
   MIN_EPISODES_FOR_EVIDENCE,
   formatDuration,
   matchAlerts,
@@ -17,16 +18,16 @@ const at = (iso: string) => new Date(iso)
 const alert = (id: string, iso: string): DiaryAlert => ({ id, at: at(iso) })
 const episode = (id: string, iso: string): DiaryEpisode => ({ id, onsetAt: at(iso) })
 
-describe('matchAlerts: a hand-worked week (window 0 to 120 min before onset)', () => {
+describe('matchAlerts: a hand-worked week (window 0 to 120 min before onset, least lead 1 min)', () => {
   const window = { minMinutes: 0, maxMinutes: 120 }
   // Given out of time order on purpose; the output must follow this input order.
   const alerts = [
     alert('a5', '2026-05-06T07:55:00Z'), //  5 min before e3
-    alert('a1', '2026-05-04T09:30:00Z'), // 30 min before e1 and 90 min before e2: shared
-    alert('a6', '2026-05-07T12:00:00Z'), // no episode follows: false alert
+    alert('a1', '2026-05-04T09:30:00Z'), // 30 min before e1, its next episode (e2 90 min later gets no credit)
+    alert('a6', '2026-05-07T12:00:00Z'), // next episode e4 is 32 h later: false alert
     alert('a3', '2026-05-06T06:20:00Z'), // 100 min before e3: its earliest
-    alert('a2', '2026-05-04T10:45:00Z'), // after e1's onset; 15 min before e2
-    alert('a7', '2026-05-08T20:10:00Z'), // 10 min AFTER e4's onset: does not count
+    alert('a2', '2026-05-04T10:45:00Z'), // after e1's onset; its next episode is e2, 15 min later
+    alert('a7', '2026-05-08T20:10:00Z'), // 10 min AFTER e4's onset and no episode follows: false
     alert('a4', '2026-05-06T07:40:00Z'), // 20 min before e3
   ]
   const episodes = [
@@ -37,39 +38,42 @@ describe('matchAlerts: a hand-worked week (window 0 to 120 min before onset)', (
   ]
   const result = matchAlerts(alerts, episodes, window)
 
-  it('marks each alert true or false and lists its episodes, in input order', () => {
+  it('credits each alert to its next episode only, in input order', () => {
     expect(result.alerts).toEqual([
-      { id: 'a5', matchedEpisodeIds: ['e3'], isTrue: true },
-      { id: 'a1', matchedEpisodeIds: ['e1', 'e2'], isTrue: true },
-      { id: 'a6', matchedEpisodeIds: [], isTrue: false },
-      { id: 'a3', matchedEpisodeIds: ['e3'], isTrue: true },
-      { id: 'a2', matchedEpisodeIds: ['e2'], isTrue: true },
-      { id: 'a7', matchedEpisodeIds: [], isTrue: false },
-      { id: 'a4', matchedEpisodeIds: ['e3'], isTrue: true },
+      { id: 'a5', outcome: 'warning', episodeId: 'e3', isTrue: true },
+      { id: 'a1', outcome: 'warning', episodeId: 'e1', isTrue: true },
+      { id: 'a6', outcome: 'false', episodeId: null, isTrue: false },
+      { id: 'a3', outcome: 'warning', episodeId: 'e3', isTrue: true },
+      { id: 'a2', outcome: 'warning', episodeId: 'e2', isTrue: true },
+      { id: 'a7', outcome: 'false', episodeId: null, isTrue: false },
+      { id: 'a4', outcome: 'warning', episodeId: 'e3', isTrue: true },
     ])
   })
 
-  it('takes each episode’s lead from its earliest alert, in input order', () => {
+  it('takes each episode’s lead from its earliest credited alert, in input order', () => {
     expect(result.episodes).toEqual([
-      { id: 'e3', alertIds: ['a3', 'a4', 'a5'], warned: true, leadMinutes: 100 },
-      { id: 'e1', alertIds: ['a1'], warned: true, leadMinutes: 30 },
-      { id: 'e4', alertIds: [], warned: false, leadMinutes: null },
-      { id: 'e2', alertIds: ['a1', 'a2'], warned: true, leadMinutes: 90 },
+      { id: 'e3', alertIds: ['a3', 'a4', 'a5'], atOnsetAlertIds: [], warned: true, leadMinutes: 100 },
+      { id: 'e1', alertIds: ['a1'], atOnsetAlertIds: [], warned: true, leadMinutes: 30 },
+      { id: 'e4', alertIds: [], atOnsetAlertIds: [], warned: false, leadMinutes: null },
+      // Under the old rule e2 also took a1 and showed a 90 min lead; now only a2 (15 min) is its own.
+      { id: 'e2', alertIds: ['a2'], atOnsetAlertIds: [], warned: true, leadMinutes: 15 },
     ])
   })
 
-  it('counts the shared alert once and totals with Wilson intervals and lead quartiles', () => {
+  it('totals with Wilson intervals and lead quartiles', () => {
     const { totals } = result
     expect(totals.alerts).toBe(7)
     expect(totals.episodes).toBe(4)
-    expect(totals.trueAlerts).toBe(5) // a1 counted once although it precedes e1 and e2
+    expect(totals.trueAlerts).toBe(5)
+    expect(totals.atOnsetAlerts).toBe(0)
+    expect(totals.falseAlerts).toBe(2)
     expect(totals.warnedEpisodes).toBe(3)
     expect(totals.positivePredictiveValue).toEqual(wilsonInterval(5, 7))
     expect(totals.positivePredictiveValue?.estimate).toBeCloseTo(5 / 7, 12)
     expect(totals.warnedShare).toEqual(wilsonInterval(3, 4))
     expect(totals.warnedShare?.estimate).toBe(0.75)
-    // Leads 30, 90, 100 (type-7 quantiles, h = 2p): q1 = 30 + 0.5 × 60 = 60, median 90, q3 = 90 + 0.5 × 10 = 95.
-    expect(totals.leadMinutes).toEqual({ median: 90, q1: 60, q3: 95 })
+    // Leads 15, 30, 100 (type-7 quantiles, h = 2p): q1 = 15 + 0.5 × 15 = 22.5, median 30, q3 = 30 + 0.5 × 70 = 65.
+    expect(totals.leadMinutes).toEqual({ median: 30, q1: 22.5, q3: 65 })
   })
 
   it('gives the same matching whatever order the input comes in', () => {
@@ -77,6 +81,52 @@ describe('matchAlerts: a hand-worked week (window 0 to 120 min before onset)', (
     expect([...reversed.alerts].reverse()).toEqual(result.alerts)
     expect([...reversed.episodes].reverse()).toEqual(result.episodes)
     expect(reversed.totals).toEqual(result.totals)
+  })
+})
+
+describe('matchAlerts: one alert, at most one episode', () => {
+  const window = { minMinutes: 0, maxMinutes: 240 }
+
+  it('two episodes 30 minutes apart and one alert before the first: only the first is warned of', () => {
+    const result = matchAlerts(
+      [alert('a', '2026-06-01T09:00:00Z')],
+      [episode('e1', '2026-06-01T09:30:00Z'), episode('e2', '2026-06-01T10:00:00Z')],
+      window,
+    )
+    expect(result.episodes.map((e) => [e.id, e.warned, e.leadMinutes])).toEqual([['e1', true, 30], ['e2', false, null]])
+    // 1 of 2 warned of (it was 2 of 2 when the alert was credited to both).
+    expect(result.totals.warnedEpisodes).toBe(1)
+    expect(result.totals.warnedShare).toEqual(wilsonInterval(1, 2))
+    expect(result.totals.trueAlerts).toBe(1)
+  })
+
+  it('an alert between two episodes warns only the later one', () => {
+    const result = matchAlerts(
+      [alert('a', '2026-06-01T09:45:00Z')],
+      [episode('e1', '2026-06-01T09:30:00Z'), episode('e2', '2026-06-01T10:00:00Z')],
+      window,
+    )
+    expect(result.alerts[0]).toEqual({ id: 'a', outcome: 'warning', episodeId: 'e2', isTrue: true })
+    expect(result.episodes.map((e) => e.warned)).toEqual([false, true])
+  })
+
+  it('two episodes logged at the same instant: the first in input order takes the alert', () => {
+    const result = matchAlerts(
+      [alert('a', '2026-06-01T09:00:00Z')],
+      [episode('first', '2026-06-01T10:00:00Z'), episode('second', '2026-06-01T10:00:00Z')],
+      window,
+    )
+    expect(result.episodes.map((e) => e.warned)).toEqual([true, false])
+  })
+
+  it('the next episode outside the window makes a false alert', () => {
+    const result = matchAlerts(
+      [alert('a', '2026-06-01T09:00:00Z')],
+      [episode('far', '2026-06-01T13:00:00.001Z')], // 240 min and 1 ms later
+      window,
+    )
+    expect(result.alerts[0]?.outcome).toBe('false')
+    expect(result.totals.falseAlerts).toBe(1)
   })
 })
 
@@ -91,10 +141,10 @@ describe('matchAlerts: window edges', () => {
       window,
     )
     expect(result.alerts.map((a) => a.isTrue)).toEqual([true, true])
-    expect(result.episodes[0]).toEqual({ id: 'e', alertIds: ['at-max', 'at-min'], warned: true, leadMinutes: 60 })
+    expect(result.episodes[0]).toEqual({ id: 'e', alertIds: ['at-max', 'at-min'], atOnsetAlertIds: [], warned: true, leadMinutes: 60 })
   })
 
-  it('excludes alerts a millisecond outside either edge, inside the last minMinutes, or after onset', () => {
+  it('a millisecond too early is false; inside the last minMinutes or at onset is "at onset"; after onset is false', () => {
     const result = matchAlerts(
       [
         alert('too-early', '2026-06-01T10:59:59.999Z'),
@@ -105,21 +155,64 @@ describe('matchAlerts: window edges', () => {
       [onset],
       window,
     )
+    expect(result.alerts.map((a) => a.outcome)).toEqual(['false', 'at-onset', 'at-onset', 'false'])
     expect(result.alerts.every((a) => !a.isTrue)).toBe(true)
-    expect(result.episodes[0]).toEqual({ id: 'e', alertIds: [], warned: false, leadMinutes: null })
+    expect(result.episodes[0]).toEqual({ id: 'e', alertIds: [], atOnsetAlertIds: ['too-late', 'at-onset'], warned: false, leadMinutes: null })
     expect(result.totals.leadMinutes).toBeNull()
+    // 0 true of 4 alerts: alerts at onset count as alerts that did not warn; 2 at onset, 2 false.
     expect(result.totals.positivePredictiveValue?.estimate).toBe(0)
-  })
-
-  it('counts an alert at the very moment of onset when minMinutes is 0 (lead 0)', () => {
-    const result = matchAlerts([alert('a', '2026-06-01T12:00:00Z')], [onset], { minMinutes: 0, maxMinutes: 60 })
-    expect(result.episodes[0]?.leadMinutes).toBe(0)
-    expect(result.alerts[0]?.isTrue).toBe(true)
+    expect([result.totals.atOnsetAlerts, result.totals.falseAlerts]).toEqual([2, 2])
   })
 
   it('keeps fractional minutes rather than rounding the lead', () => {
     const result = matchAlerts([alert('a', '2026-06-01T11:17:30Z')], [onset], window)
     expect(result.episodes[0]?.leadMinutes).toBe(42.5)
+  })
+})
+
+describe('matchAlerts: the least lead of a warning (policy, default 1 minute)', () => {
+  const window = { minMinutes: 0, maxMinutes: 60 }
+  const onset = episode('e', '2026-06-01T12:00:00Z')
+  const one = (iso: string, minLeadMinutes?: number) =>
+    matchAlerts([alert('a', iso)], [onset], window, minLeadMinutes === undefined ? {} : { minLeadMinutes })
+
+  it('defaults to 1 minute', () => {
+    expect(DEFAULT_MIN_LEAD_MINUTES).toBe(1) // common practice
+  })
+
+  it('a lead of exactly 1 minute is a warning; 1 ms less is an alert at onset', () => {
+    expect(one('2026-06-01T11:59:00Z').alerts[0]?.outcome).toBe('warning')
+    expect(one('2026-06-01T11:59:00Z').episodes[0]?.leadMinutes).toBe(1)
+    expect(one('2026-06-01T11:59:00.001Z').alerts[0]?.outcome).toBe('at-onset')
+  })
+
+  it('an alert in the same minute as onset is at onset (it was a warning with lead 0 before)', () => {
+    const r = one('2026-06-01T12:00:00Z')
+    expect(r.alerts[0]).toEqual({ id: 'a', outcome: 'at-onset', episodeId: 'e', isTrue: false })
+    expect(r.episodes[0]).toMatchObject({ warned: false, atOnsetAlertIds: ['a'], leadMinutes: null })
+    expect(r.totals).toMatchObject({ alerts: 1, trueAlerts: 0, atOnsetAlerts: 1, falseAlerts: 0, warnedEpisodes: 0 })
+  })
+
+  it('an alert tapped up to a minute after onset is at onset; a full minute after is false', () => {
+    expect(one('2026-06-01T12:00:59.999Z').alerts[0]?.outcome).toBe('at-onset')
+    expect(one('2026-06-01T12:01:00Z').alerts[0]?.outcome).toBe('false')
+  })
+
+  it('with a least lead of 0 an alert at the very moment of onset is a warning with lead 0, and one after it is false', () => {
+    expect(one('2026-06-01T12:00:00Z', 0).episodes[0]).toMatchObject({ warned: true, leadMinutes: 0 })
+    expect(one('2026-06-01T12:00:00.001Z', 0).alerts[0]?.outcome).toBe('false')
+  })
+
+  it('the larger of the window’s near end and the least lead applies', () => {
+    const r = matchAlerts([alert('a', '2026-06-01T11:51:00Z')], [onset], { minMinutes: 10, maxMinutes: 60 }, { minLeadMinutes: 1 })
+    expect(r.alerts[0]?.outcome).toBe('at-onset') // 9 min < 10
+    const s = matchAlerts([alert('a', '2026-06-01T11:57:00Z')], [onset], { minMinutes: 0, maxMinutes: 60 }, { minLeadMinutes: 5 })
+    expect(s.alerts[0]?.outcome).toBe('at-onset') // 3 min < 5
+  })
+
+  it('refuses a negative or unknown least lead', () => {
+    expect(() => matchAlerts([], [onset], window, { minLeadMinutes: -1 })).toThrow(/least lead/)
+    expect(() => matchAlerts([], [onset], window, { minLeadMinutes: Number.NaN })).toThrow(RangeError)
   })
 })
 
@@ -171,6 +264,8 @@ describe('matchAlerts: lead-time median and quartiles', () => {
       alerts: 0,
       episodes: 0,
       trueAlerts: 0,
+      atOnsetAlerts: 0,
+      falseAlerts: 0,
       warnedEpisodes: 0,
       warnedShare: null,
       positivePredictiveValue: null,

@@ -218,3 +218,37 @@ describe('wall-clock times in the person’s time zone', () => {
     expect(m.episodes[0]).toMatchObject({ warned: true, leadMinutes: 30 })
   })
 })
+
+describe('one alert, one episode, in every figure (summary, chart, refresher)', () => {
+  // An alert 30 min before e1 and e2 30 min after e1, then four episodes with no alert (all in June 2026).
+  // Old rule: the alert warned of e1 AND e2 (2 of 6 warned). New rule: it warns only its next episode, e1 (1 of 6).
+  const now = new Date('2026-06-30T12:00:00Z')
+  const entries = [
+    alert('a', '2026-06-20T09:00:00Z'), episode('e1', '2026-06-20T09:30:00Z'), episode('e2', '2026-06-20T10:00:00Z'),
+    episode('e3', '2026-06-22T10:00:00Z'), episode('e4', '2026-06-24T10:00:00Z'), episode('e5', '2026-06-26T10:00:00Z'),
+    episode('e6', '2026-06-28T10:00:00Z'),
+  ]
+  const match = matchEntries(entries, { minMinutes: 0, maxMinutes: 240 }, { minLeadMinutes: 1 })
+
+  it('the period summary counts 1 of 6 warned of', () => {
+    const t = periodTotals(entries, match, new Date('2026-06-01T00:00:00Z'))
+    expect([t.warnedEpisodes, t.episodes, t.trueAlerts, t.alerts]).toEqual([1, 6, 1, 1])
+  })
+
+  it('the chart’s month counts 1 warned with a lead of 30 min', () => {
+    expect(leadTimesByMonth(entries, match, 'UTC')).toEqual([
+      { month: '2026-06', episodes: 6, warned: 1, leads: [30], median: 30, q1: 30, q3: 30 },
+    ])
+  })
+
+  it('the refresher check sees 1 of 6 (17%) and is due', () => {
+    const check = refresherCheck(entries, match, { recentDays: 30, minRecentEpisodes: 5, refresherBelowPercent: 60 }, now)
+    expect(check).toMatchObject({ due: true, recentEpisodes: 6, recentWarned: 1 })
+    expect(check.recentShare).toBeCloseTo(1 / 6, 12)
+  })
+
+  it('ships a least lead of 1 minute in the policy and refuses a negative one', () => {
+    expect(DIARY_POLICY_DEFAULTS.minLeadMinutes).toBe(1) // common practice
+    expect(diaryPolicySchema.safeParse({ ...DIARY_POLICY_DEFAULTS, minLeadMinutes: -1 }).success).toBe(false)
+  })
+})
