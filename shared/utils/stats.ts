@@ -192,6 +192,7 @@ export interface TrialScore {
   counts: TrialCounts
   sensitivity: ProportionInterval | null
   specificity: ProportionInterval | null
+  /** 1 − specificity: false alerts on blank line-ups / blank line-ups (never over all trials). */
   falseAlertRate: ProportionInterval | null
   /** Median latency of hits that have a latency recorded; null when there is none. */
   medianLatencySeconds: number | null
@@ -224,7 +225,9 @@ function checkStation(value: number | null, stations: number, index: number, fie
  * sensitivity and specificity", BMJ 308:1552):
  * - sensitivity = hits / target-present trials;
  * - specificity = correct rejections / blank trials;
- * - falseAlertRate = false alerts / all trials.
+ * - falseAlertRate = 1 − specificity = false alerts on blank trials / blank trials (the false-positive rate). It
+ *   used to be all false alerts over all trials, which is neither 1 − specificity nor 1 − PPV and looks better than
+ *   both; a wrong station on a target trial already lowers sensitivity and stays in counts.falseAlerts.
  * Each rate carries its Wilson interval at `confidence`; a rate whose denominator is 0 is null (never NaN).
  *
  * Throws RangeError naming the trial's index (from 0) when stations is not a whole number of 1 or more, when a
@@ -281,7 +284,7 @@ export function scoreTrials(trials: readonly Trial[], confidence = 0.95): TrialS
     counts,
     sensitivity: wilsonInterval(counts.hits, counts.targetPresent, confidence),
     specificity: wilsonInterval(counts.correctRejections, counts.blank, confidence),
-    falseAlertRate: wilsonInterval(counts.falseAlerts, counts.trials, confidence),
+    falseAlertRate: wilsonInterval(counts.blank - counts.correctRejections, counts.blank, confidence),
     medianLatencySeconds: median(hitLatencies),
   }
 }

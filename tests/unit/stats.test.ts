@@ -212,18 +212,22 @@ describe('scoreTrials', () => {
     })
   })
 
-  it('gives sensitivity 5/7, specificity 4/5 and false-alert rate 2/12 with Wilson intervals', () => {
+  it('gives sensitivity 5/7, specificity 4/5 and false-alert rate 1 − specificity = 1/5 with Wilson intervals', () => {
     const score = scoreTrials(trials)
     expect(score.sensitivity?.estimate).toBeCloseTo(5 / 7, 12)
     expect(score.specificity?.estimate).toBeCloseTo(4 / 5, 12)
-    expect(score.falseAlertRate?.estimate).toBeCloseTo(2 / 12, 12)
+    // One false alert on 5 blank line-ups (Altman & Bland 1994: 1 − specificity). It was 2/12 over all trials.
+    expect(score.falseAlertRate?.estimate).toBeCloseTo(1 / 5, 12)
+    // The Wilson interval is symmetric under r → n − r: the false-alert range mirrors specificity's.
+    expect(score.falseAlertRate?.lower).toBeCloseTo(1 - score.specificity!.upper, 12)
+    expect(score.falseAlertRate?.upper).toBeCloseTo(1 - score.specificity!.lower, 12)
     const sensitivity = independentWilson(5, 7, 0.95)
     expect(score.sensitivity?.lower).toBeCloseTo(sensitivity.lower, 9)
     expect(score.sensitivity?.upper).toBeCloseTo(sensitivity.upper, 9)
     const specificity = independentWilson(4, 5, 0.95)
     expect(score.specificity?.lower).toBeCloseTo(specificity.lower, 9)
     const at90 = scoreTrials(trials, 0.9)
-    expect(at90.falseAlertRate?.upper).toBeCloseTo(independentWilson(2, 12, 0.9).upper, 9)
+    expect(at90.falseAlertRate?.upper).toBeCloseTo(independentWilson(1, 5, 0.9).upper, 9)
   })
 
   it('takes the median latency of timed hits only (4, 6, 8, 10 → 7)', () => {
@@ -249,7 +253,9 @@ describe('scoreTrials', () => {
     ])
     expect(allTarget.specificity).toBeNull()
     expect(allTarget.sensitivity?.estimate).toBeCloseTo(2 / 3, 12)
-    expect(allTarget.falseAlertRate?.estimate).toBeCloseTo(1 / 3, 12)
+    // A wrong station lowers sensitivity; with no blank line-up there is no false-alert rate (1 − specificity).
+    expect(allTarget.falseAlertRate).toBeNull()
+    expect(allTarget.counts.falseAlerts).toBe(1)
     expect(allTarget.counts.wrongStation).toBe(1)
     expect(allTarget.medianLatencySeconds).toBe(7)
   })
