@@ -100,7 +100,7 @@ export async function seedInvoices(tx: Tx, today: Date, seedId: (name: string) =
         notes: `Standard scent-alert programme: ${part.label.toLowerCase()}.`, createdById: seedId('user:admin'),
         feeScheduleId: scheduleId, planPart: part.part, scheduledIssueOn: part.issueOn, createdAt: today, updatedAt: today,
       })
-      await tx.insert(s.invoiceLines).values(part.lines.map((l, i) => ({ invoiceId: id, position: i + 1, ...l, ...totals[i]! })))
+      await tx.insert(s.invoiceLines).values(part.lines.map(({ allocatedTaxMinor: _shared, ...l }, i) => ({ invoiceId: id, position: i + 1, ...l, ...totals[i]! })))
     }
   }
 }

@@ -84,7 +84,10 @@ export async function createPlanInvoices(actor: AuthUser, client: ClientRow, tem
           dueInDays: policy.paymentTermsDays, notes: `${template?.name ?? 'Programme'}: ${part.label.toLowerCase()}.`, createdById: actor.id,
           feeScheduleId: schedule.id, planPart: part.part, scheduledIssueOn: part.issueOn,
         }).returning()
-        await tx.insert(invoiceLines).values(part.lines.map((l, i) => ({ invoiceId: inv!.id, position: i + 1, ...l, ...lineTotals(l) })))
+        await tx.insert(invoiceLines).values(part.lines.map((l, i) => ({
+          invoiceId: inv!.id, position: i + 1, description: l.description, unitMinor: l.unitMinor, quantity: l.quantity,
+          taxRateBasisPoints: l.taxRateBasisPoints, ...lineTotals(l),
+        })))
         const issued = part.issueOn <= today ? await issueDraftInTx(tx, actor.id, inv!.id, client, business) : null
         created.push(issued ?? inv!)
       }

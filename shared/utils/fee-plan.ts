@@ -1,6 +1,6 @@
 // Fee plans (pure, no database): a programme template's price list and payment plan turned into dated invoices,
 // overdue reminders once per policy interval, and payments received per month. Money is integer minor units.
-import { splitInstalments } from './money'
+import { BASIS_POINTS_PER_WHOLE, invoiceTotals, lineTotals, splitInstalments, type InvoiceTotals } from './money'
 
 export interface FeeLine {
   description: string
@@ -22,7 +22,14 @@ export interface FeeScheduleInput {
   intervalMonths: number
 }
 
-export interface PlanInvoiceLine { description: string, unitMinor: number, quantity: 1, taxRateBasisPoints: number }
+export interface PlanInvoiceLine {
+  description: string
+  unitMinor: number
+  quantity: 1
+  taxRateBasisPoints: number
+  /** This part's share of its price list line's tax (allocateTax): the plan adds up exactly to the quote. */
+  allocatedTaxMinor: number
+}
 export interface PlanInvoice {
   /** 'deposit' or 'instalment:k' (k from 1): stable within one plan, used to create each invoice once only. */
   part: string
@@ -49,10 +56,46 @@ export function feeScheduleTotal(lines: readonly FeeLine[]): number {
 }
 
 /**
+ * The quote: the price list as one invoice, tax worked per price list line (rounded halves away from zero). The
+ * plan's invoices add up to exactly this net, tax and gross.
+ */
+export function feeScheduleQuote(schedule: Pick<FeeScheduleInput, 'lines' | 'taxRateBasisPoints'>): InvoiceTotals {
+  return invoiceTotals(schedule.lines.map(l => ({ unitMinor: l.unitMinor, quantity: 1, taxRateBasisPoints: l.taxRateBasisPoints ?? schedule.taxRateBasisPoints })))
+}
+
+/**
+ * Distributes the tax on a whole price list line over its parts (deposit share, instalment shares) by the largest
+ * remainder method (Hamilton's method): each part first gets its exact tax (net × rate) rounded down; the minor
+ * units still missing to reach the line's quoted tax go one each to the parts with the largest fractions, the
+ * earlier part first on a tie. So every part's tax is its exact tax rounded down or up — never further — and the
+ * parts add up exactly to the quoted tax. Nets must be whole minor units, 0 or more.
+ */
+export function allocateTax(partsNet: readonly number[], taxRateBasisPoints: number): number[] {
+  if (partsNet.some(n => !Number.isSafeInteger(n) || n < 0)) throw new RangeError('Every part must be a whole number of minor units, 0 or more.')
+  const total = partsNet.reduce((a, n) => a + n, 0)
+  const quoted = lineTotals({ unitMinor: total, quantity: 1, taxRateBasisPoints }).taxMinor
+  const whole = BigInt(BASIS_POINTS_PER_WHOLE)
+  const exact = partsNet.map(n => BigInt(n) * BigInt(taxRateBasisPoints))
+  const shares = exact.map(e => Number(e / whole)) // nets are ≥ 0, so division truncates = rounds down
+  const fractions = exact.map(e => Number(e % whole))
+  let missing = quoted - shares.reduce((a, n) => a + n, 0)
+  const order = partsNet.map((_, i) => i).filter(i => fractions[i]! > 0).sort((a, b) => fractions[b]! - fractions[a]! || a - b)
+  if (missing < 0 || missing > order.length) throw new RangeError('The tax cannot be distributed over these parts.') // cannot happen for nets ≥ 0
+  for (const i of order) {
+    if (missing === 0) break
+    shares[i]! += 1
+    missing -= 1
+  }
+  return shares
+}
+
+/**
  * The plan's invoices, deposit first. The deposit is taken from the price list lines in their order (usually all from
  * the first line); what is left of each line is split over the instalments with splitInstalments, so every line's
  * shares add up to the line exactly and the plan adds up to the price list exactly (net). Each invoice line carries
- * its price list line's tax rate; tax is then rounded per invoice line as on any invoice.
+ * its price list line's tax rate and its share of that line's quoted tax (allocateTax), so the plan's invoices add
+ * up exactly to the quote's gross (feeScheduleQuote) — rounding tax per instalment could overshoot by a few minor
+ * units (£1,200.00 + 20 % in 7 instalments: £240.02 instead of £240.00).
  */
 export function buildFeePlan(schedule: FeeScheduleInput, startDate: string): PlanInvoice[] {
   const total = feeScheduleTotal(schedule.lines)
@@ -69,18 +112,20 @@ export function buildFeePlan(schedule: FeeScheduleInput, startDate: string): Pla
     depositLeft -= take
     return take
   })
+  const n = schedule.instalmentCount
+  const shares = schedule.lines.map((l, i) => splitInstalments(l.unitMinor - depositTaken[i]!, n))
+  // Each price list line's tax over its parts: [deposit share, instalment 1, …, instalment n].
+  const taxes = schedule.lines.map((l, i) => allocateTax([depositTaken[i]!, ...shares[i]!], rate(l)))
   if (schedule.depositMinor > 0) {
     out.push({
       part: 'deposit', label: 'Deposit', issueOn: startDate, netMinor: schedule.depositMinor,
-      lines: schedule.lines.flatMap((l, i) => depositTaken[i]! > 0 ? [{ description: `Deposit: ${l.description}`, unitMinor: depositTaken[i]!, quantity: 1 as const, taxRateBasisPoints: rate(l) }] : []),
+      lines: schedule.lines.flatMap((l, i) => depositTaken[i]! > 0 ? [{ description: `Deposit: ${l.description}`, unitMinor: depositTaken[i]!, quantity: 1 as const, taxRateBasisPoints: rate(l), allocatedTaxMinor: taxes[i]![0]! }] : []),
     })
   }
-  const n = schedule.instalmentCount
-  const shares = schedule.lines.map((l, i) => splitInstalments(l.unitMinor - depositTaken[i]!, n))
   for (let k = 1; k <= n; k++) {
     const lines = schedule.lines.flatMap((l, i) => {
       const amount = shares[i]![k - 1]!
-      return amount > 0 ? [{ description: `Instalment ${k} of ${n}: ${l.description}`, unitMinor: amount, quantity: 1 as const, taxRateBasisPoints: rate(l) }] : []
+      return amount > 0 ? [{ description: `Instalment ${k} of ${n}: ${l.description}`, unitMinor: amount, quantity: 1 as const, taxRateBasisPoints: rate(l), allocatedTaxMinor: taxes[i]![k]! }] : []
     })
     if (!lines.length) continue // nothing left to pay (e.g. the deposit covers everything)
     out.push({ part: `instalment:${k}`, label: `Instalment ${k} of ${n}`, issueOn: addMonths(startDate, k * schedule.intervalMonths), netMinor: lines.reduce((a, l) => a + l.unitMinor, 0), lines })

@@ -33,9 +33,15 @@ export function canCredit(kind: InvoiceKind, status: InvoiceStatus) { return kin
 
 export interface StoredLine extends LineInput { description: string }
 
-/** A credit note's lines: each line of the invoice with its unit price negated, so its tax mirrors exactly. */
-export function creditLines(lines: readonly StoredLine[]): StoredLine[] {
-  return lines.map(l => ({ ...l, description: `Credit: ${l.description}`, unitMinor: -l.unitMinor }))
+/**
+ * A credit note's lines: each line of the invoice with its unit price negated, so its tax mirrors exactly. A stored
+ * line's own tax (`taxMinor`, e.g. a plan instalment's distributed tax) is negated with it.
+ */
+export function creditLines(lines: ReadonlyArray<StoredLine & { taxMinor?: number }>): StoredLine[] {
+  return lines.map(l => ({
+    description: `Credit: ${l.description}`, unitMinor: -l.unitMinor, quantity: l.quantity, taxRateBasisPoints: l.taxRateBasisPoints,
+    ...(l.taxMinor !== undefined ? { allocatedTaxMinor: -l.taxMinor } : {}),
+  }))
 }
 
 /** What is still owed on an invoice (never below zero). */

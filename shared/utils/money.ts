@@ -85,6 +85,11 @@ export interface LineInput {
   quantity: number
   /** Tax rate in basis points: 20 % = 2000, 5 % = 500, 0 % = 0. At most 100 %. */
   taxRateBasisPoints: number
+  /**
+   * The line's tax when a plan distributed it (see allocateTax in ./fee-plan): the exact tax rounded down or up,
+   * never further. Left out, the tax is the exact tax rounded to the nearest minor unit, halves away from zero.
+   */
+  allocatedTaxMinor?: number
 }
 
 export interface LineTotals {
@@ -93,7 +98,16 @@ export interface LineTotals {
   grossMinor: number
 }
 
-/** One line's net, tax (rounded per line, halves away from zero) and gross, all in minor units. */
+/** a / b rounded down (toward −∞). b > 0. */
+function divFloor(a: bigint, b: bigint): bigint {
+  const q = a / b
+  return a % b !== ZERO && a < ZERO ? q - ONE : q
+}
+
+/**
+ * One line's net, tax (rounded per line, halves away from zero; or the allocated tax, which must be the exact tax
+ * rounded down or up) and gross, all in minor units.
+ */
 export function lineTotals(line: LineInput): LineTotals {
   assertSafeInteger(line.unitMinor, 'The unit price')
   if (!Number.isSafeInteger(line.quantity) || line.quantity < 0) {
@@ -104,7 +118,17 @@ export function lineTotals(line: LineInput): LineTotals {
     throw new RangeError('The tax rate must be whole basis points from 0 to 10000 (0 % to 100 %).')
   }
   const net = BigInt(line.unitMinor) * BigInt(line.quantity)
-  const tax = divRoundHalfAway(net * BigInt(bp), BigInt(BASIS_POINTS_PER_WHOLE))
+  let tax = divRoundHalfAway(net * BigInt(bp), BigInt(BASIS_POINTS_PER_WHOLE))
+  if (line.allocatedTaxMinor !== undefined) {
+    assertSafeInteger(line.allocatedTaxMinor, 'The allocated tax')
+    const down = divFloor(net * BigInt(bp), BigInt(BASIS_POINTS_PER_WHOLE))
+    const up = -divFloor(-net * BigInt(bp), BigInt(BASIS_POINTS_PER_WHOLE))
+    const allocated = BigInt(line.allocatedTaxMinor)
+    if (allocated < down || allocated > up) {
+      throw new RangeError('The allocated tax must be the line\'s exact tax rounded down or up.')
+    }
+    tax = allocated
+  }
   return {
     netMinor: toSafe(net, 'The line net amount'),
     taxMinor: toSafe(tax, 'The line tax'),

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
-import { addMonths, buildFeePlan, lastMonths, reminderNumberDue, revenueByMonth } from '../../shared/utils/fee-plan'
-import { invoiceTotals, parsePercent } from '../../shared/utils/money'
+import { addMonths, allocateTax, buildFeePlan, feeScheduleQuote, lastMonths, reminderNumberDue, revenueByMonth } from '../../shared/utils/fee-plan'
+import { creditLines } from '../../shared/utils/invoices'
+import { invoiceTotals, lineTotals, parsePercent } from '../../shared/utils/money'
 import { feeScheduleFormSchema, feeScheduleSchema, invoiceDraftFormSchema } from '../../shared/schemas/fee-schedules'
 
 // Check values below are our own arithmetic on invented fees unless marked otherwise.
@@ -30,7 +31,8 @@ describe('buildFeePlan', () => {
     expect(plan[0]!.netMinor).toBe(60000)
     // (210000 − 60000) / 6 = 25000 each.
     expect(plan.slice(1).map(p => p.netMinor)).toEqual([25000, 25000, 25000, 25000, 25000, 25000])
-    expect(plan[1]!.lines[0]).toEqual({ description: 'Instalment 1 of 6: Placement programme', unitMinor: 25000, quantity: 1, taxRateBasisPoints: 2000 })
+    // 25000 × 20 % = 5000 exactly: nothing to distribute.
+    expect(plan[1]!.lines[0]).toEqual({ description: 'Instalment 1 of 6: Placement programme', unitMinor: 25000, quantity: 1, taxRateBasisPoints: 2000, allocatedTaxMinor: 5000 })
   })
 
   it('adds up to the price list exactly, the odd units on the earliest instalments', () => {
@@ -58,8 +60,12 @@ describe('buildFeePlan', () => {
     expect(plan.map(p => p.issueOn)).toEqual(['2026-02-10', '2026-04-10', '2026-06-10', '2026-08-10', '2026-10-10'])
     const perLine = (name: string) => sum(plan.flatMap(p => p.lines.filter(l => l.description.endsWith(name)).map(l => l.unitMinor)))
     expect([perLine('Assessment visit'), perLine('Training programme'), perLine('Scent sample kit')]).toEqual([15000, 180000, 4001])
-    // Tax is rounded per invoice line as on any invoice: 38750 × 20 % = 7750.
+    // 38750 × 20 % = 7750 exactly; the kit is at 0 %.
     expect(invoiceTotals(plan[1]!.lines).taxMinor).toBe(7750)
+    // Quote: tax 15000 × 20 % + 180000 × 20 % + 0 = 3000 + 36000 = 39000; gross 199001 + 39000 = 238001.
+    const quote = feeScheduleQuote({ lines: [{ description: 'a', unitMinor: 15000, taxRateBasisPoints: null }, { description: 'b', unitMinor: 180000, taxRateBasisPoints: null }, { description: 'c', unitMinor: 4001, taxRateBasisPoints: 0 }], taxRateBasisPoints: 2000 })
+    expect([quote.netMinor, quote.taxMinor, quote.grossMinor]).toEqual([199001, 39000, 238001])
+    expect(sum(plan.map(p => invoiceTotals(p.lines).grossMinor))).toBe(238001)
   })
 
   it('has no deposit invoice for a zero deposit and refuses a deposit above the total', () => {
@@ -67,6 +73,72 @@ describe('buildFeePlan', () => {
     expect(() => buildFeePlan({ ...schedule, depositMinor: 210001 }, '2026-01-01')).toThrow(/deposit cannot be more/)
     // The deposit covers it all: no empty instalments.
     expect(buildFeePlan({ ...schedule, depositMinor: 210000 }, '2026-01-01').map(p => p.part)).toEqual(['deposit'])
+  })
+})
+
+describe('tax on a plan adds up to the quote (largest remainder)', () => {
+  const plan = (unitMinor: number, rate: number, instalmentCount: number, depositMinor = 0) =>
+    buildFeePlan({ lines: [{ description: 'Programme', unitMinor, taxRateBasisPoints: null }], taxRateBasisPoints: rate, depositMinor, instalmentCount, intervalMonths: 1 }, '2026-01-15')
+
+  it('£1,200.00 + 20 % in 7 instalments: tax £240.00 exactly, not £240.02', () => {
+    const p = plan(120000, 2000, 7)
+    // 120000 / 7 = 17142 r 6: six of 17143 and one of 17142.
+    expect(p.map(x => x.netMinor)).toEqual([17143, 17143, 17143, 17143, 17143, 17143, 17142])
+    // Exact tax 3428.6 (×6) and 3428.4: floors 7 × 3428 = 23996; 4 pence missing go to the largest fractions (.6),
+    // the earliest first: 3429 × 4, 3428 × 3 = 24000.
+    const taxes = p.map(x => invoiceTotals(x.lines).taxMinor)
+    expect(taxes).toEqual([3429, 3429, 3429, 3429, 3428, 3428, 3428])
+    expect(sum(taxes)).toBe(24000)
+    expect(p.map(x => invoiceTotals(x.lines).grossMinor)).toEqual([20572, 20572, 20572, 20572, 20571, 20571, 20570])
+    expect(sum(p.map(x => invoiceTotals(x.lines).grossMinor))).toBe(144000)
+    // Rounding each instalment on its own (the old way) gives 6 × 3429 + 3428 = 24002.
+    expect(sum(p.map(x => lineTotals({ unitMinor: x.netMinor, quantity: 1, taxRateBasisPoints: 2000 }).taxMinor))).toBe(24002)
+  })
+
+  it('£100.01 + 17.5 % in 3: the quote rounds 1750.175 to 1750; per instalment would give 1749', () => {
+    const p = plan(10001, 1750, 3)
+    // 3334, 3334, 3333 → exact 583.45, 583.45, 583.275: floors 1749, one penny to the first .45.
+    expect(p.map(x => invoiceTotals(x.lines).taxMinor)).toEqual([584, 583, 583])
+    expect(sum(p.map(x => invoiceTotals(x.lines).grossMinor))).toBe(feeScheduleQuote({ lines: [{ description: 'Programme', unitMinor: 10001, taxRateBasisPoints: null }], taxRateBasisPoints: 1750 }).grossMinor)
+    expect(sum(p.map(x => lineTotals({ unitMinor: x.netMinor, quantity: 1, taxRateBasisPoints: 1750 }).taxMinor))).toBe(1749)
+  })
+
+  it('with a deposit the deposit takes its share too: £999.99 + 20 %, deposit £333.33, 2 instalments', () => {
+    const p = plan(99999, 2000, 2, 33333)
+    // Parts 33333, 33333, 33333 → exact 6666.6 each; quote 19999.8 → 20000; floors 19998: +1 to the first two.
+    expect(p.map(x => invoiceTotals(x.lines).taxMinor)).toEqual([6667, 6667, 6666])
+    expect(sum(p.map(x => invoiceTotals(x.lines).grossMinor))).toBe(99999 + 20000)
+  })
+
+  it('a yen plan (no minor digits) adds up too: ¥10,000 + 10 % in 3', () => {
+    const p = plan(10000, 1000, 3)
+    // 3334, 3333, 3333 → 333.4, 333.3, 333.3: floors 999, the missing yen to the first.
+    expect(p.map(x => invoiceTotals(x.lines).taxMinor)).toEqual([334, 333, 333])
+  })
+
+  it('allocateTax: each share is its exact tax rounded down or up, ties to the earlier part', () => {
+    expect(allocateTax([], 2000)).toEqual([])
+    expect(allocateTax([0, 0], 2000)).toEqual([0, 0])
+    expect(allocateTax([12345], 2000)).toEqual([2469]) // one part: the whole line's tax
+    expect(allocateTax([5, 5], 1000)).toEqual([1, 0]) // 0.5 + 0.5 = 1: the earlier part takes it
+    expect(allocateTax([3, 3, 3], 0)).toEqual([0, 0, 0])
+    expect(allocateTax([1, 1, 1], 5000)).toEqual([1, 1, 0]) // quote 1.5 → 2 (halves away from zero)
+    expect(() => allocateTax([-1, 2], 2000)).toThrow(/0 or more/)
+  })
+
+  it('an invoice line refuses an allocated tax further than a rounding from the exact tax', () => {
+    // 17143 × 20 % = 3428.6: 3428 and 3429 are allowed, 3427 and 3430 are not.
+    const line = { unitMinor: 17143, quantity: 1, taxRateBasisPoints: 2000 }
+    expect(lineTotals({ ...line, allocatedTaxMinor: 3428 }).grossMinor).toBe(20571)
+    expect(lineTotals({ ...line, allocatedTaxMinor: 3429 }).taxMinor).toBe(3429)
+    expect(() => lineTotals({ ...line, allocatedTaxMinor: 3427 })).toThrow(/rounded down or up/)
+    expect(() => lineTotals({ ...line, allocatedTaxMinor: 3430 })).toThrow(/rounded down or up/)
+  })
+
+  it('a credit note mirrors an instalment’s distributed tax exactly', () => {
+    const stored = { description: 'Instalment 5 of 7: Programme', unitMinor: 17143, quantity: 1, taxRateBasisPoints: 2000, taxMinor: 3428 }
+    const credit = invoiceTotals(creditLines([stored]))
+    expect([credit.netMinor, credit.taxMinor, credit.grossMinor]).toEqual([-17143, -3428, -20571])
   })
 })
 
