@@ -5,13 +5,13 @@ import * as s from '../../server/database/schema'
 import type { Database } from '../../server/database/client'
 import {
   DEFAULT_SAMPLE_POLICY, bankSummary, restockTransition, sampleState, seededRandom, stockForecast, stockRosterValue, uniqueBagCode,
-  type Sample, type SampleKind, type SampleUse,
+  type Bag, type Sample, type SampleKind, type SampleUse,
 } from '../../shared/utils/samples'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
 
 /** The sample tables, children before parents, for the seed's delete list. */
-export const SAMPLE_TABLES_CHILD_FIRST = ['sample_bank_status', 'sample_uses', 'samples', 'sample_outer_bags', 'sample_containers'] as const
+export const SAMPLE_TABLES_CHILD_FIRST = ['sample_bank_settings', 'sample_bank_status', 'sample_uses', 'samples', 'sample_outer_bags', 'sample_containers'] as const
 
 const DAY = 86_400_000
 const MIN = 60_000
@@ -24,6 +24,12 @@ interface SampleSeed {
   ateMinutesBefore?: number
   /** Quick-saved during an episode, checklist not yet answered. */
   quick?: boolean
+  /** Answered but not yet put in an outer bag in the freezer. */
+  unstored?: boolean
+  /** Targets: minutes from the first symptoms to collecting (20 when left out). */
+  symptomsMinutesBefore?: number
+  /** Targets: medication for the episode taken before collecting. */
+  medicationBefore?: boolean
 }
 interface BankSeed {
   key: string
@@ -43,7 +49,13 @@ export const SAMPLE_BANKS: BankSeed[] = [
   // A healthy bank in discrimination work, with one target quick-saved yesterday during a migraine.
   {
     key: 'fairweather', stage: 'discrimination', useEvery: { target: 3, control: 3 },
-    samples: [t(120), t(90), t(75), t(60), t(40), t(25), t(12), t(5), { kind: 'target', daysAgo: 1, quick: true }, c(130), c(100), c(80), c(50), c(30), c(14), c(7), c(3)],
+    samples: [
+      t(120), t(90), t(75), t(60), t(40), t(25), t(12), t(5), { kind: 'target', daysAgo: 1, quick: true }, c(130), c(100), c(80), c(50), c(30), c(14), c(7), c(3),
+      // Two targets from this week's migraines still waiting to go into the freezer; one collected late in the
+      // episode (95 minutes after the first symptoms) and one after a painkiller: both flagged for the trainer.
+      { kind: 'target', daysAgo: 2, unstored: true }, { kind: 'target', daysAgo: 2, unstored: true },
+      { kind: 'target', daysAgo: 9, symptomsMinutesBefore: 95 }, { kind: 'target', daysAgo: 16, medicationBefore: true },
+    ],
   },
   // Running low on targets: used often, few collected since the programme began.
   {
@@ -87,7 +99,8 @@ export async function seedSampleBanks(tx: Tx, opts: { today: Date, seedId: (name
       }
       return {
         id: seedId(`sample:${bank.key}:${i}`), clientId, kind: seed.kind, bagCode: uniqueBagCode(seed.kind, taken, random),
-        collectedAt, firstSymptomsAt: seed.kind === 'target' ? new Date(collectedAt.getTime() - 20 * MIN) : null,
+        collectedAt, firstSymptomsAt: seed.kind === 'target' ? new Date(collectedAt.getTime() - (seed.symptomsMinutesBefore ?? 20) * MIN) : null,
+        medicationBefore: seed.kind === 'target' ? seed.medicationBefore ?? false : null,
         collectorId: handler.id, rolls: seed.rolls ?? 4, answers, answersCompletedAt: seed.quick ? null : collectedAt,
         compromised,
         compromisedReasons: compromised ? [{ rule: 'fasting-food', message: `Only ${seed.ateMinutesBefore} minutes passed between eating and collecting; at least ${policy.fastingMinutes} minutes are needed.` }] : null,
@@ -98,7 +111,7 @@ export async function seedSampleBanks(tx: Tx, opts: { today: Date, seedId: (name
     // Outer bags: up to maxBagsPerOuterBag small bags of one kind each, in the container of that kind.
     const bags: (typeof s.sampleOuterBags.$inferInsert)[] = []
     for (const kind of ['target', 'control'] as const) {
-      const mine = rows.filter(r => r.kind === kind && r.answersCompletedAt !== null)
+      const mine = rows.filter((r, i) => r.kind === kind && r.answersCompletedAt !== null && !bank.samples[i]!.unstored)
       for (let i = 0; i < mine.length; i += policy.maxBagsPerOuterBag) {
         const id = seedId(`sample-outer-bag:${bank.key}:${kind}:${i}`)
         bags.push({ id, clientId, kind, label: `${kind === 'target' ? 'Target' : 'Control'} bag ${i / policy.maxBagsPerOuterBag + 1}`, containerId: containers.find(x => x.kind === kind)!.id, createdAt: mine[i]!.collectedAt, updatedAt: mine[i]!.collectedAt })
@@ -109,7 +122,10 @@ export async function seedSampleBanks(tx: Tx, opts: { today: Date, seedId: (name
     await tx.insert(s.samples).values(rows)
 
     // Uses over the last four weeks: each on the oldest sample still usable that day, 3 minutes out.
-    const pureSamples: Sample[] = rows.map(r => ({ id: r.id, kind: r.kind, collectedAt: r.collectedAt, compromised: r.compromised || r.answers === null }))
+    const pureSamples: Bag[] = rows.map(r => ({
+      id: r.id, kind: r.kind, collectedAt: r.collectedAt, compromised: r.compromised || r.answers === null,
+      stored: r.outerBagId !== null, answersComplete: r.answers !== null,
+    }))
     const pureUses: SampleUse[] = []
     const useRows: (typeof s.sampleUses.$inferInsert)[] = []
     for (const kind of ['target', 'control'] as const) {

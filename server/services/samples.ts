@@ -4,17 +4,17 @@
 import type { H3Event } from 'h3'
 import { and, asc, eq, inArray, isNull, lt, or, sql } from 'drizzle-orm'
 import {
-  clientHandlers, clients, sampleBankStatus, sampleContainers, sampleOuterBags, sampleUses, samples, users,
+  clientHandlers, clients, sampleBankSettings, sampleBankStatus, sampleContainers, sampleOuterBags, sampleUses, samples, users,
 } from '../database/schema'
 import {
-  DEFAULT_SAMPLE_POLICY, EXPOSURES, bankSummary, checkCollection, checkPacking, checkUse, checkUseReturn,
-  restockTransition, sampleState, stockForecast, stockRosterValue, uniqueBagCode,
-  type CollectionAnswers, type Problem, type SampleRosterValue, type Sample, type SamplePolicy, type SampleState, type SampleUse, type StockForecast,
+  DEFAULT_SAMPLE_POLICY, EXPOSURES, bagState, bankSummary, checkCollection, checkPacking, checkUse, checkUseReturn,
+  discardReasonOf, restockTransition, stockForecast, stockRosterValue, targetTiming, uniqueBagCode, useDiscards,
+  type Bag, type CollectionAnswers, type Problem, type SampleRosterValue, type Sample, type SamplePolicy, type SampleState, type SampleUse, type StockForecast,
 } from '../../shared/utils/samples'
 import { SAMPLE_POLICY_KEY, samplePolicySchema } from '../../shared/schemas/settings-samples'
 import { businessProfileSchema, businessProfile } from '../../shared/schemas/settings-business'
 import type {
-  CollectionAnswersInput, ContainerCreateInput, SampleAnswersInput, SampleCreateInput, SampleStoreInput, UseCloseInput, UseCreateInput,
+  CollectionAnswersInput, ContainerCreateInput, SampleAnswersInput, SampleCreateInput, SampleSettingsInput, SampleStoreInput, UseCloseInput, UseCreateInput,
 } from '../../shared/schemas/samples'
 import type { AuthUser } from '../utils/authz'
 import type { DbOrTx, Tx } from '../utils/db'
@@ -82,7 +82,23 @@ function pureSample(row: SampleRow): Sample {
   }
 }
 function pureUse(row: UseRow): SampleUse {
-  return { sampleId: row.sampleId, outAt: row.outAt, backAt: row.backAt, discarded: row.discarded, stage: row.stage }
+  return { sampleId: row.sampleId, outAt: row.outAt, backAt: row.backAt, discarded: row.discarded, stage: row.stage, overLimit: row.overLimit }
+}
+/** A household's sample settings: whether the trainer keeps flagged targets out of training. */
+async function excludesFlaggedTargets(db: DbOrTx, clientId: string) {
+  const [row] = await db.select({ v: sampleBankSettings.excludeFlaggedTargets }).from(sampleBankSettings).where(eq(sampleBankSettings.clientId, clientId)).limit(1)
+  return row?.v ?? false
+}
+function timingOf(row: SampleRow, policy: SamplePolicy) {
+  return targetTiming({ kind: row.kind, collectedAt: row.collectedAt, firstSymptomsAt: row.firstSymptomsAt, medicationBefore: row.medicationBefore }, policy)
+}
+/** The bag as bagState sees it: the sample as collected, whether it is in the freezer, answered, and kept out. */
+function pureBag(row: SampleRow, policy: SamplePolicy, excludeFlagged: boolean): Bag {
+  return {
+    id: row.id, kind: row.kind, collectedAt: row.collectedAt, compromised: row.compromised, overrideReason: row.overrideReason,
+    discardedAt: row.discardedAt, stored: row.outerBagId !== null, answersComplete: row.answersCompletedAt !== null,
+    keptOut: excludeFlagged && timingOf(row, policy).flagged,
+  }
 }
 
 function answersToJson(a: CollectionAnswersInput): Record<string, unknown> {
@@ -119,37 +135,40 @@ function fieldErrorsOfProblems(problems: Problem[]) {
 
 export type BankStatus = SampleState['status'] | 'awaiting-answers'
 
-function describeSample(row: SampleRow, uses: readonly UseRow[], now: Date, policy: SamplePolicy) {
+function describeSample(row: SampleRow, uses: readonly UseRow[], now: Date, policy: SamplePolicy, excludeFlagged: boolean) {
   const own = uses.filter(u => u.sampleId === row.id)
-  const state = sampleState(pureSample(row), own.map(pureUse), now, policy)
-  const awaiting = row.answersCompletedAt === null && state.status === 'compromised'
+  const state = bagState(pureBag(row, policy, excludeFlagged), own.map(pureUse), now, policy)
+  const awaiting = state.state === 'awaiting-answers'
   return {
     id: row.id, kind: row.kind, bagCode: row.bagCode, collectedAt: row.collectedAt, firstSymptomsAt: row.firstSymptomsAt,
+    medicationBefore: row.medicationBefore, timing: timingOf(row, policy),
     rolls: row.rolls, answers: row.answers, answersComplete: row.answersCompletedAt !== null,
     compromised: row.compromised, compromisedReasons: row.compromisedReasons ?? [], overrideReason: row.overrideReason,
     outerBagId: row.outerBagId, discardedAt: row.discardedAt, discardReason: row.discardReason, notes: row.notes,
     collectorId: row.collectorId,
     status: (awaiting ? 'awaiting-answers' : state.status) as BankStatus,
-    usesLeft: awaiting ? 0 : state.usesLeft, usesRecorded: own.length,
+    // The one decision every screen lists by (shared/utils/samples.ts bagState).
+    state: state.state, list: state.list, inStock: state.inStock, useUntil: state.useUntil,
+    usesLeft: state.usesLeft, usesRecorded: own.length,
     expiresAt: state.expiresAt, renewAt: state.renewAt, openUse: state.openUse, overdueUse: state.overdueUse, overridden: state.overridden,
     uses: own.map(u => ({ id: u.id, outAt: u.outAt, backAt: u.backAt, discarded: u.discarded, stage: u.stage, sessionRef: u.sessionRef, overLimit: u.overLimit })),
   }
 }
 
 async function loadBank(db: DbOrTx, clientId: string) {
-  const [sampleRows, useRows, bagRows, containerRows] = await Promise.all([
+  const [sampleRows, useRows, bagRows, containerRows, excludeFlagged] = await Promise.all([
     db.select().from(samples).where(eq(samples.clientId, clientId)).orderBy(asc(samples.collectedAt)),
     db.select().from(sampleUses).where(eq(sampleUses.clientId, clientId)).orderBy(asc(sampleUses.outAt)),
     db.select().from(sampleOuterBags).where(eq(sampleOuterBags.clientId, clientId)).orderBy(asc(sampleOuterBags.createdAt)),
     db.select().from(sampleContainers).where(eq(sampleContainers.clientId, clientId)).orderBy(asc(sampleContainers.createdAt)),
+    excludesFlaggedTargets(db, clientId),
   ])
-  return { sampleRows, useRows, bagRows, containerRows }
+  return { sampleRows, useRows, bagRows, containerRows, excludeFlagged }
 }
 
-function forecastOf(sampleRows: SampleRow[], useRows: UseRow[], now: Date, policy: SamplePolicy) {
-  const pure = sampleRows.map(pureSample)
+function forecastOf(sampleRows: SampleRow[], useRows: UseRow[], now: Date, policy: SamplePolicy, excludeFlagged: boolean) {
   const uses = useRows.map(pureUse)
-  return { forecast: stockForecast(pure, uses, now, policy), summary: bankSummary(pure, uses, now, policy) }
+  return { forecast: stockForecast(sampleRows.map(r => pureBag(r, policy, excludeFlagged)), uses, now, policy), summary: bankSummary(sampleRows.map(pureSample), uses, now, policy) }
 }
 
 /** The whole bank of one household: samples with their state, bags, containers, forecast and reminder status. */
@@ -161,13 +180,14 @@ export async function getSampleBank(user: AuthUser, client: ClientRow) {
     db.select().from(sampleBankStatus).where(eq(sampleBankStatus.clientId, client.id)).limit(1),
   ])
   const live = bank.sampleRows.filter(s => s.discardedAt === null)
-  const { forecast, summary } = forecastOf(bank.sampleRows, bank.useRows, now, policy)
+  const { forecast, summary } = forecastOf(bank.sampleRows, bank.useRows, now, policy, bank.excludeFlagged)
   return {
     client: { id: client.id, householdName: client.householdName, personName: client.personName },
     policy,
     now: now.toISOString(),
     canOverride: user.role !== 'handler',
-    samples: bank.sampleRows.map(r => describeSample(r, bank.useRows, now, policy)),
+    samples: bank.sampleRows.map(r => describeSample(r, bank.useRows, now, policy, bank.excludeFlagged)),
+    settings: { excludeFlaggedTargets: bank.excludeFlagged },
     outerBags: bank.bagRows.map(b => ({ ...b, bags: live.filter(s => s.outerBagId === b.id).length })),
     containers: bank.containerRows.map(c => ({ ...c, outerBags: bank.bagRows.filter(b => b.containerId === c.id).length })),
     forecast,
@@ -206,6 +226,7 @@ export async function createSample(user: AuthUser, client: ClientRow, input: Sam
     const [row] = await tx.insert(samples).values({
       clientId: client.id, kind: input.kind, bagCode: uniqueBagCode(input.kind, taken), collectedAt: input.collectedAt,
       firstSymptomsAt: input.kind === 'target' ? input.firstSymptomsAt ?? null : null, collectorId: user.id, rolls: input.rolls,
+      medicationBefore: input.kind === 'target' ? input.medicationBefore ?? null : null,
       answers: input.answers ? answersToJson(input.answers) : null, answersCompletedAt: quick ? null : new Date(),
       compromised: compromising.length > 0, compromisedReasons: compromising.length ? compromising : null, notes: input.notes ?? null,
     }).returning()
@@ -231,6 +252,7 @@ export async function completeSampleAnswers(user: AuthUser, sample: SampleRow, i
   return db.transaction(async (tx) => {
     const [row] = await tx.update(samples).set({
       collectedAt: merged.collectedAt, firstSymptomsAt: merged.kind === 'target' ? merged.firstSymptomsAt ?? null : null, rolls: merged.rolls,
+      medicationBefore: merged.kind === 'target' ? (input.medicationBefore !== undefined ? input.medicationBefore : sample.medicationBefore) : null,
       answers: answersToJson(input.answers), answersCompletedAt: new Date(), compromised: compromising.length > 0,
       compromisedReasons: compromising.length ? compromising : null, overrideReason: compromising.length ? sample.overrideReason : null,
     }).where(eq(samples.id, sample.id)).returning()
@@ -313,6 +335,9 @@ export async function recordSampleUse(user: AuthUser, sample: SampleRow, input: 
     if (fresh!.answersCompletedAt === null) {
       sampleRuleError([{ rule: 'answers-missing', message: 'Complete the collection checklist for this sample before it is used in training.' }])
     }
+    if (pureBag(fresh!, policy, await excludesFlaggedTargets(tx, sample.clientId)).keptOut) {
+      sampleRuleError([{ rule: 'kept-out', message: 'Your trainer keeps targets collected late in an episode or after medication out of training. Use another target sample.' }])
+    }
     const check = checkUse({
       sample: pureSample(fresh!), uses: own.map(pureUse), use: { outAt: input.outAt, backAt: input.backAt, stage: input.stage, discarded: input.discarded },
       maintenanceSession: input.maintenanceSession || input.stage === 'maintenance', now: new Date(), policy,
@@ -323,7 +348,7 @@ export async function recordSampleUse(user: AuthUser, sample: SampleRow, input: 
       sessionRef: input.sessionRef, discarded: check.discards, overLimit: check.overLimit, recordedById: user.id,
     }).returning()
     if (check.discards && input.backAt) {
-      await tx.update(samples).set({ discardedAt: input.backAt, discardReason: input.discarded ? 'Thrown away after use.' : 'Single use in imprinting.' }).where(eq(samples.id, sample.id))
+      await tx.update(samples).set({ discardedAt: input.backAt, discardReason: discardReasonOf({ discarded: input.discarded ?? false, stage: input.stage, overLimit: check.overLimit }, policy) }).where(eq(samples.id, sample.id))
     }
     await logAudit(tx, { actorId: user.id, action: 'sample.used', entityType: 'sample', entityId: sample.id, clientId: sample.clientId, data: { useId: row!.id, stage: input.stage, discards: check.discards, overLimit: check.overLimit } })
     await refreshSampleBank(tx, sample.clientId, policy)
@@ -337,12 +362,13 @@ export async function closeSampleUse(user: AuthUser, use: UseRow, input: UseClos
   return db.transaction(async (tx) => {
     const check = checkUseReturn(use, input.backAt, new Date(), policy)
     if (!check.ok) sampleRuleError(check.invalid)
-    const discards = input.discarded || use.discarded || (policy.imprintingSingleUse && use.stage === 'imprinting')
+    const closed = { discarded: input.discarded || use.discarded, stage: use.stage, overLimit: check.overLimit }
+    const discards = useDiscards(closed, policy)
     const [row] = await tx.update(sampleUses).set({ backAt: input.backAt, discarded: discards, overLimit: check.overLimit })
       .where(and(eq(sampleUses.id, use.id), isNull(sampleUses.backAt))).returning()
     if (!row) sampleRuleError([{ rule: 'use-already-closed', message: 'This use is already closed: the sample is back in the freezer.' }])
     if (discards) {
-      await tx.update(samples).set({ discardedAt: input.backAt, discardReason: input.discarded ? 'Thrown away after use.' : 'Single use in imprinting.' })
+      await tx.update(samples).set({ discardedAt: input.backAt, discardReason: discardReasonOf(closed, policy) })
         .where(and(eq(samples.id, use.sampleId), isNull(samples.discardedAt)))
     }
     await logAudit(tx, { actorId: user.id, action: 'sample.returned', entityType: 'sample', entityId: use.sampleId, clientId: use.clientId, data: { useId: use.id, discards, overLimit: check.overLimit } })
@@ -363,6 +389,23 @@ export async function overrideSample(user: AuthUser, sample: SampleRow, reason: 
     await logAudit(tx, { actorId: user.id, action: 'sample.override', entityType: 'sample', entityId: sample.id, clientId: sample.clientId, data: { reason, rules: (sample.compromisedReasons ?? []).map(p => p.rule) } })
     await refreshSampleBank(tx, sample.clientId, policy)
     return row!
+  })
+}
+
+/** The trainer keeps flagged targets (late, or after medication) of one household out of training, or lets them in. */
+export async function setSampleSettings(user: AuthUser, client: ClientRow, input: SampleSettingsInput) {
+  const db = useDb()
+  const policy = await samplePolicy(db)
+  return db.transaction(async (tx) => {
+    const before = await excludesFlaggedTargets(tx, client.id)
+    const [row] = await tx.insert(sampleBankSettings).values({ clientId: client.id, excludeFlaggedTargets: input.excludeFlaggedTargets, updatedById: user.id })
+      .onConflictDoUpdate({ target: sampleBankSettings.clientId, set: { excludeFlaggedTargets: input.excludeFlaggedTargets, updatedById: user.id, updatedAt: new Date() } }).returning()
+    await logAudit(tx, {
+      actorId: user.id, action: 'sample-settings.set', entityType: 'client', entityId: client.id, clientId: client.id,
+      data: { name: input.excludeFlaggedTargets ? 'Flagged targets kept out of training' : 'Flagged targets allowed in training', before: { excludeFlaggedTargets: before }, after: input },
+    })
+    await refreshSampleBank(tx, client.id, policy)
+    return { clientId: row!.clientId, excludeFlaggedTargets: row!.excludeFlaggedTargets }
   })
 }
 
@@ -426,13 +469,14 @@ async function queueRestockReminder(tx: Tx, clientId: string, episode: number, f
  */
 export async function refreshSampleBank(tx: Tx, clientId: string, policy?: SamplePolicy, now = new Date()) {
   const pol = policy ?? await samplePolicy(tx)
-  const [sampleRows, useRows, [prev]] = await Promise.all([
+  const [sampleRows, useRows, [prev], excludeFlagged] = await Promise.all([
     tx.select().from(samples).where(eq(samples.clientId, clientId)),
     tx.select().from(sampleUses).where(eq(sampleUses.clientId, clientId)),
     tx.select().from(sampleBankStatus).where(eq(sampleBankStatus.clientId, clientId)).limit(1),
+    excludesFlaggedTargets(tx, clientId),
   ])
   if (!sampleRows.length && !prev) return null
-  const { forecast, summary } = forecastOf(sampleRows, useRows, now, pol)
+  const { forecast, summary } = forecastOf(sampleRows, useRows, now, pol, excludeFlagged)
   const next = restockTransition(prev ? { restockDue: prev.restockDue, episode: prev.restockEpisode } : null, forecast)
   let reminderQueuedAt = prev?.reminderQueuedAt ?? null
   if (next.remind && await queueRestockReminder(tx, clientId, next.episode, forecast, next.lowKinds)) reminderQueuedAt = now

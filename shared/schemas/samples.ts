@@ -35,6 +35,8 @@ export const sampleCreateSchema = z.object({
   kind: sampleKind,
   collectedAt: instant('when the sample was collected'),
   firstSymptomsAt: optionalInstant('when the first symptoms began'),
+  /** Targets: medication for this episode taken before collecting (null: not recorded). Ignored for controls. */
+  medicationBefore: z.boolean({ invalid_type_error: 'Say yes or no: was medication taken before collecting?' }).nullable().optional(),
   rolls: z.number({ required_error: 'Enter how many cotton rolls are in the bag.', invalid_type_error: 'Enter the number of cotton rolls.' })
     .int('Enter the number of cotton rolls as a whole number.').min(1, 'A sample needs at least 1 cotton roll.').max(100, 'That is far too many rolls for one bag.'),
   answers: collectionAnswersSchema.optional(),
@@ -47,6 +49,7 @@ export const sampleAnswersSchema = z.object({
   answers: collectionAnswersSchema,
   collectedAt: instant('when the sample was collected').optional(),
   firstSymptomsAt: optionalInstant('when the first symptoms began'),
+  medicationBefore: z.boolean({ invalid_type_error: 'Say yes or no: was medication taken before collecting?' }).nullable().optional(),
   rolls: z.number().int('Enter the number of cotton rolls as a whole number.').min(1).max(100).optional(),
 })
 export type SampleAnswersInput = z.infer<typeof sampleAnswersSchema>
@@ -93,3 +96,9 @@ export type UseCloseInput = z.infer<typeof useCloseSchema>
 
 export const overrideSchema = z.object({ reason: reason('why this compromised sample may be used') })
 export const discardSchema = z.object({ reason: reason('why the sample is thrown away') })
+
+/** The trainer's choice for one household: keep flagged targets (late, or after medication) out of training. */
+export const sampleSettingsSchema = z.object({
+  excludeFlaggedTargets: z.boolean({ required_error: 'Say whether flagged targets are kept out of training.', invalid_type_error: 'Say yes (true) or no (false).' }),
+}).strict()
+export type SampleSettingsInput = z.infer<typeof sampleSettingsSchema>

@@ -19,8 +19,14 @@ export const samplePolicySchema: z.ZodType<SamplePolicy> = z.object({
   imprintingSingleUse: z.boolean(),
   restockThresholdDays: whole(0, 365, 'the days'),
   forecastWindowDays: whole(1, 365, 'the days'),
+  forecastMinDays: whole(1, 365, 'the days'),
+  overLimitIsLastUse: z.boolean(),
+  targetMaxMinutesAfterSymptoms: whole(1, 24 * 60, 'the minutes'),
+  flagMedicatedTargets: z.boolean(),
 }).refine(p => p.renewAfterDays <= p.expireAfterDays, {
   message: 'Renewal must come before (or on) expiry.', path: ['renewAfterDays'],
+}).refine(p => p.forecastMinDays <= p.forecastWindowDays, {
+  message: 'The shortest measuring span cannot be longer than the rate window.', path: ['forecastMinDays'],
 }) as unknown as z.ZodType<SamplePolicy>
 
 export const SAMPLE_POLICY_KEY = 'samples'
@@ -43,5 +49,9 @@ export const samplePolicySetting = defineSetting<SamplePolicy>(SAMPLE_POLICY_KEY
     imprintingSingleUse: 'Imprinting uses throw the sample away',
     restockThresholdDays: 'Remind to collect when stock runs out within (days)',
     forecastWindowDays: 'Rate of use measured over the last (days)',
+    forecastMinDays: 'A young bank\'s rate measured over its age, but at least (days)',
+    overLimitIsLastUse: 'A use longer than the limit is the sample\'s last (it thawed)',
+    targetMaxMinutesAfterSymptoms: 'Flag targets collected later than this after the first symptoms (minutes)',
+    flagMedicatedTargets: 'Flag targets collected after medication for the episode',
   },
 })

@@ -39,6 +39,14 @@ export interface SamplePolicy {
   restockThresholdDays: number
   /** Recent rate of use is measured over this many days before now. */
   forecastWindowDays: number
+  /** A bank younger than the window is measured over its own age, but over at least this many days. */
+  forecastMinDays: number
+  /** A use longer than maxMinutesOutPerUse (the sample thawed) is its last: the sample is thrown away after it. */
+  overLimitIsLastUse: boolean
+  /** A target collected more than this many minutes after the first symptoms is flagged (late in the episode). */
+  targetMaxMinutesAfterSymptoms: number
+  /** A target collected after medication for the episode was taken is flagged. */
+  flagMedicatedTargets: boolean
 }
 
 export const DEFAULT_SAMPLE_POLICY: SamplePolicy = Object.freeze({
@@ -56,6 +64,14 @@ export const DEFAULT_SAMPLE_POLICY: SamplePolicy = Object.freeze({
   // Our own choice: four weeks covers every weekday several times, so a quiet week or a busy weekend does not swing
   // the forecast, yet a change of training stage shows within a month.
   forecastWindowDays: 28,
+  // Our own choice: a bank only days old is measured over its own age (its first week of imprinting is the rate it
+  // runs at), but over at least a week, so one busy first afternoon does not read as the lasting rate.
+  forecastMinDays: 7,
+  overLimitIsLastUse: true, // common practice: a sample out longer than the limit has thawed; it is not refrozen
+  // Common practice: the scent change is strongest early in an episode; a target collected more than an hour after
+  // the first symptoms, or after medication for the episode, may smell of the episode's later stages or the drug.
+  targetMaxMinutesAfterSymptoms: 60,
+  flagMedicatedTargets: true,
 })
 
 /** A closed use longer than this is a typing mistake, not a thaw: refused as input error. Our own choice (24 h). */
@@ -297,6 +313,8 @@ export interface SampleUse {
   discarded: boolean
   /** Training stage, e.g. 'imprinting'. */
   stage?: string | null
+  /** The closed use was out longer than maxMinutesOutPerUse. */
+  overLimit?: boolean
 }
 
 export type SampleStatus = 'usable' | 'maintenance-only' | 'expired' | 'used-up' | 'compromised' | 'discarded'
@@ -320,9 +338,20 @@ export function isImprintingStage(stage: string | null | undefined): boolean {
   return typeof stage === 'string' && stage.trim().toLowerCase() === IMPRINTING_STAGE
 }
 
-/** True when this use throws the sample away: marked discarded, or an imprinting use under a single-use policy. */
-export function useDiscards(use: Pick<SampleUse, 'discarded' | 'stage'>, policy: SamplePolicy): boolean {
-  return use.discarded || (policy.imprintingSingleUse && isImprintingStage(use.stage))
+/**
+ * True when this use throws the sample away: marked discarded, an imprinting use under a single-use policy, or a
+ * use out longer than the limit under the "last use" policy (the sample thawed).
+ */
+export function useDiscards(use: Pick<SampleUse, 'discarded' | 'stage' | 'overLimit'>, policy: SamplePolicy): boolean {
+  return use.discarded || (policy.imprintingSingleUse && isImprintingStage(use.stage)) || (policy.overLimitIsLastUse && use.overLimit === true)
+}
+
+/** Why a use threw its sample away, in words for the sample's record (null when it did not). */
+export function discardReasonOf(use: Pick<SampleUse, 'discarded' | 'stage' | 'overLimit'>, policy: SamplePolicy): string | null {
+  if (use.discarded) return 'Thrown away after use.'
+  if (policy.overLimitIsLastUse && use.overLimit === true) return `Out of the freezer longer than ${plural(policy.maxMinutesOutPerUse, 'minute')}: that use was its last.`
+  if (policy.imprintingSingleUse && isImprintingStage(use.stage)) return 'Single use in imprinting.'
+  return null
 }
 
 function hasOverride(sample: Sample): boolean {
@@ -442,7 +471,9 @@ function closedUseProblems(
     overLimit = true
     warnings.push({
       rule: 'over-time-limit',
-      message: `The sample was out for ${minutesText(out)}; keep it out no longer than ${plural(policy.maxMinutesOutPerUse, 'minute')}.`,
+      message: policy.overLimitIsLastUse
+        ? `The sample was out for ${minutesText(out)}, longer than ${plural(policy.maxMinutesOutPerUse, 'minute')}: it has thawed, so this was its last use. Throw it away.`
+        : `The sample was out for ${minutesText(out)}; keep it out no longer than ${plural(policy.maxMinutesOutPerUse, 'minute')}.`,
     })
   }
   return { invalid, warnings, overLimit }
@@ -530,7 +561,7 @@ export function checkUse(input: {
     invalid,
     warnings,
     overLimit,
-    discards: useDiscards({ discarded: use.discarded ?? false, stage: use.stage ?? null }, policy),
+    discards: useDiscards({ discarded: use.discarded ?? false, stage: use.stage ?? null, overLimit }, policy),
   }
 }
 
@@ -551,6 +582,123 @@ export function checkUseReturn(
   }
   const r = closedUseProblems(use.outAt, backAt, now, policy)
   return { ok: r.invalid.length === 0, ...r }
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Target timing: how far into the episode a target was collected, and whether medication came first.
+
+export interface TargetTimingInput {
+  kind: SampleKind
+  collectedAt: Date
+  firstSymptomsAt?: Date | null
+  /** Medication for this episode taken before collecting; null or left out: not recorded. */
+  medicationBefore?: boolean | null
+}
+
+export interface TargetTiming {
+  /** Whole minutes from the first symptoms to collecting (rounded down); null for a control or without the time. */
+  minutesAfterSymptoms: number | null
+  /** Collected more than targetMaxMinutesAfterSymptoms after the first symptoms. */
+  late: boolean
+  /** Collected after medication for the episode (and the policy flags that). */
+  medicated: boolean
+  /** Late or medicated: the trainer may keep it out of training. */
+  flagged: boolean
+  reasons: Problem[]
+}
+
+/**
+ * A target's timing flags. Late: collectedAt − firstSymptomsAt > targetMaxMinutesAfterSymptoms minutes (exactly the
+ * limit is not late). Medicated: medicationBefore is true and policy.flagMedicatedTargets is on. A control is never
+ * flagged; neither is a target whose medication was not recorded (it says so in the record, not as a flag).
+ */
+export function targetTiming(input: TargetTimingInput, policy: SamplePolicy = DEFAULT_SAMPLE_POLICY): TargetTiming {
+  if (input.kind !== 'target') return { minutesAfterSymptoms: null, late: false, medicated: false, flagged: false, reasons: [] }
+  const first = input.firstSymptomsAt
+  const gap = first && isValidDate(first) && isValidDate(input.collectedAt) ? input.collectedAt.getTime() - first.getTime() : null
+  const late = gap !== null && gap > policy.targetMaxMinutesAfterSymptoms * MINUTE_MS
+  const medicated = policy.flagMedicatedTargets && input.medicationBefore === true
+  const reasons: Problem[] = []
+  if (late) {
+    reasons.push({
+      rule: 'target-late',
+      message: `Collected ${minutesText(gap!)} after the first symptoms, later than the ${plural(policy.targetMaxMinutesAfterSymptoms, 'minute')} the protocol allows.`,
+    })
+  }
+  if (medicated) reasons.push({ rule: 'target-after-medication', message: 'Collected after medication for the episode was taken.' })
+  return { minutesAfterSymptoms: gap === null ? null : Math.floor(Math.max(0, gap) / MINUTE_MS), late, medicated, flagged: late || medicated, reasons }
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// A bag's state: the one answer every screen, list and the forecast use.
+
+/** Facts about a bag beyond the sample itself. Left out, a bag counts as stored with its checklist answered. */
+export interface BagFacts {
+  /** In an outer bag in the freezer. */
+  stored?: boolean
+  /** Its collection checklist is answered (false for a quick save still waiting). */
+  answersComplete?: boolean
+  /** The trainer keeps it out of training (e.g. a late or medicated target filtered out; see targetTiming). */
+  keptOut?: boolean
+}
+export type Bag = Sample & BagFacts
+
+export type BagState =
+  | 'ready' | 'maintenance-only' | 'out' | 'to-store' | 'awaiting-answers' | 'kept-out'
+  | 'compromised' | 'expired' | 'used-up' | 'discarded'
+
+/** Where a bag is listed for the household: to finish, ready for training, not for training, or gone. */
+export type BagList = 'to-finish' | 'ready' | 'not-for-training' | 'gone'
+
+export const BAG_LIST_OF: Record<BagState, BagList> = {
+  out: 'to-finish', 'awaiting-answers': 'to-finish', 'to-store': 'to-finish',
+  ready: 'ready', 'maintenance-only': 'ready',
+  'kept-out': 'not-for-training', compromised: 'not-for-training', expired: 'not-for-training', 'used-up': 'not-for-training',
+  discarded: 'gone',
+}
+
+export interface BagView extends SampleState {
+  state: BagState
+  list: BagList
+  /** Counted in the forecast's uses left and bags: usable (not maintenance-only), answered, not kept out. */
+  inStock: boolean
+  /** Last day it may be used while it still may be (usable, maintenance-only, or waiting for answers); else null. */
+  useUntil: string | null
+}
+
+/**
+ * A bag's state at `now`. Precedence, first match wins:
+ *   discarded > out (a use is open: it must go back or be thrown away, whatever else) > used-up > expired
+ *   > awaiting-answers (quick save) > compromised (no override) > kept-out > to-store (not in an outer bag yet)
+ *   > maintenance-only > ready.
+ * inStock is true for a usable sample (see sampleState) that is answered and not kept out, whether it is ready, out
+ * now or still to be put in the freezer: the forecast counts exactly these, and the household's card says how many
+ * of them are in the freezer.
+ */
+export function bagState(bag: Bag, uses: readonly SampleUse[], now: Date = new Date(), policy: SamplePolicy = DEFAULT_SAMPLE_POLICY): BagView {
+  const answered = bag.answersComplete !== false
+  const sample: Sample = answered ? bag : { ...bag, compromised: true, overrideReason: null }
+  const st = sampleState(sample, uses, now, policy)
+  let state: BagState
+  if (st.status === 'discarded') state = 'discarded'
+  else if (st.openUse) state = 'out'
+  else if (st.status === 'used-up' || st.status === 'expired') state = st.status
+  else if (!answered) state = 'awaiting-answers'
+  else if (st.status === 'compromised') state = 'compromised'
+  else if (bag.keptOut === true) state = 'kept-out'
+  else if (bag.stored === false) state = 'to-store'
+  else state = st.status === 'maintenance-only' ? 'maintenance-only' : 'ready'
+  const inStock = st.status === 'usable' && answered && bag.keptOut !== true
+  const mayBeUsed = st.status === 'usable' || st.status === 'maintenance-only' || (!answered && st.status === 'compromised')
+  return {
+    ...st,
+    // Uses the household can still put to training: none while it waits for answers, is kept out or is past use.
+    usesLeft: (st.status === 'usable' || st.status === 'maintenance-only') && answered && bag.keptOut !== true ? st.usesLeft : 0,
+    state,
+    list: BAG_LIST_OF[state],
+    inStock,
+    useUntil: mayBeUsed && bag.keptOut !== true ? st.expiresAt : null,
+  }
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -601,14 +749,18 @@ export function checkPacking(
 // Stock forecast
 
 export interface KindForecast {
-  /** Samples with status 'usable'. */
+  /** Bags in stock (bagState's inStock): usable, answered, not kept out — ready, out now or still to store. */
   usableSamples: number
+  /** Of those: in the freezer, out of it now, and waiting to go in. */
+  bags: { ready: number, out: number, toStore: number }
   /** Samples with status 'maintenance-only' (not counted in usesLeft). */
   maintenanceOnlySamples: number
   /** Uses left across the usable samples. */
   usesLeft: number
-  /** Uses consumed per day over the last forecastWindowDays (see stockForecast). */
+  /** Uses consumed per day over rateDays (see stockForecast). */
   ratePerDay: number
+  /** Days the rate is measured over: the bank's age, at least forecastMinDays and at most forecastWindowDays. */
+  rateDays: number
   /** When the usable uses run out at that rate; now when none are left; null when nothing was used. */
   runsOutAt: string | null
   /** Whole days until runsOutAt (rounded down); 0 when none left; null when nothing was used. */
@@ -624,13 +776,16 @@ export type StockForecast = Record<SampleKind, KindForecast>
 /**
  * Forecast when each kind of sample runs out.
  *
- * Rate: the uses consumed by uses that came out in the window (now − forecastWindowDays, now], divided by
- * forecastWindowDays. A use consumes 1; a use that discards its sample (marked discarded, or imprinting under a
- * single-use policy) consumes every use the sample had left before it, because that is what the bank loses.
- * Uses of samples not in `samples`, and uses dated after now, are ignored.
+ * Rate: the uses consumed by uses that came out in the window (now − forecastWindowDays, now], divided by the days
+ * measured: forecastWindowDays, or — for a bank whose first sample of this kind is younger than that — the bank's
+ * own age, but never fewer than forecastMinDays. (Dividing a week-old bank's uses by the whole window told a
+ * household burning samples in imprinting it had about four times longer than it had.) A use consumes 1; a use that
+ * discards its sample (marked discarded, imprinting under a single-use policy, or over the time limit under the
+ * last-use policy) consumes every use the sample had left before it, because that is what the bank loses.
+ * Stock is what bagState counts as inStock. Uses of samples not in `samples`, and uses dated after now, are ignored.
  */
 export function stockForecast(
-  samples: readonly Sample[],
+  samples: readonly Bag[],
   uses: readonly SampleUse[],
   now: Date = new Date(),
   policy: SamplePolicy = DEFAULT_SAMPLE_POLICY,
@@ -652,17 +807,23 @@ export function stockForecast(
     let usesLeft = 0
     let consumed = 0
     let agesOutMs: number | null = null
+    let firstCollected = Number.POSITIVE_INFINITY
+    const bags = { ready: 0, out: 0, toStore: 0 }
 
     for (const sample of samples) {
       if (sample.kind !== kind) continue
+      firstCollected = Math.min(firstCollected, sample.collectedAt.getTime())
       const own = (usesBySample.get(sample.id) ?? []).slice().sort((a, b) => a.outAt.getTime() - b.outAt.getTime())
-      const state = sampleState(sample, own, now, policy)
-      if (state.status === 'usable') {
+      const view = bagState(sample, own, now, policy)
+      if (view.inStock) {
         usableSamples += 1
-        usesLeft += state.usesLeft
-        const renew = Date.parse(state.renewAt)
+        usesLeft += view.usesLeft
+        if (view.state === 'out') bags.out += 1
+        else if (view.state === 'to-store') bags.toStore += 1
+        else bags.ready += 1
+        const renew = Date.parse(view.renewAt)
         agesOutMs = agesOutMs === null ? renew : Math.max(agesOutMs, renew)
-      } else if (state.status === 'maintenance-only') {
+      } else if (view.status === 'maintenance-only' && view.list !== 'not-for-training') {
         maintenanceOnlySamples += 1
       }
       own.forEach((u, usesBefore) => {
@@ -672,24 +833,29 @@ export function stockForecast(
       })
     }
 
-    const ratePerDay = consumed / policy.forecastWindowDays
+    // The span measured, in whole milliseconds: the bank's age, clamped to [forecastMinDays, forecastWindowDays].
+    const age = Number.isFinite(firstCollected) ? Math.max(0, t - firstCollected) : policy.forecastWindowDays * DAY_MS
+    const spanMs = Math.min(policy.forecastWindowDays * DAY_MS, Math.max(Math.min(policy.forecastMinDays, policy.forecastWindowDays) * DAY_MS, age))
+    const ratePerDay = (consumed * DAY_MS) / spanMs
     let runsOutAt: string | null = null
     let daysLeft: number | null = null
     if (usesLeft === 0) {
       runsOutAt = now.toISOString()
       daysLeft = 0
     } else if (consumed > 0) {
-      // usesLeft ÷ (consumed / window) = usesLeft × window ÷ consumed, in integers so 21.0 days is never 20.99….
-      const spanDays = usesLeft * policy.forecastWindowDays
-      runsOutAt = new Date(t + Math.round((spanDays * DAY_MS) / consumed)).toISOString()
-      daysLeft = Math.floor(spanDays / consumed)
+      // usesLeft ÷ (consumed / span) = usesLeft × span ÷ consumed, in integers so 21.0 days is never 20.99….
+      const leftMs = usesLeft * spanMs
+      runsOutAt = new Date(t + Math.round(leftMs / consumed)).toISOString()
+      daysLeft = Math.floor(leftMs / (consumed * DAY_MS))
     }
     const agesOutSoon = agesOutMs !== null && agesOutMs - t <= policy.restockThresholdDays * DAY_MS
     return {
       usableSamples,
+      bags,
       maintenanceOnlySamples,
       usesLeft,
       ratePerDay,
+      rateDays: spanMs / DAY_MS,
       runsOutAt,
       daysLeft,
       agesOutAt: agesOutMs === null ? null : new Date(agesOutMs).toISOString(),
@@ -876,12 +1042,16 @@ export function stockRosterValue(forecast: StockForecast, summary: BankSummary, 
 }
 
 /** Words for a sample's status on screen; 'awaiting-answers' is a quick save whose checklist is not answered yet. */
-export const SAMPLE_STATUS_LABELS: Record<SampleStatus | 'awaiting-answers', string> = {
+export const SAMPLE_STATUS_LABELS: Record<SampleStatus | BagState, string> = {
   usable: 'Ready',
+  ready: 'Ready',
   'maintenance-only': 'Maintenance only',
+  out: 'Out of the freezer',
+  'to-store': 'Not in the freezer yet',
   expired: 'Expired',
   'used-up': 'Used up',
   compromised: 'Compromised',
+  'kept-out': 'Kept out of training',
   discarded: 'Thrown away',
   'awaiting-answers': 'Checklist to finish',
 }

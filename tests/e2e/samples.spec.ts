@@ -76,6 +76,11 @@ test('during an episode the handler saves a target quickly, answers the checklis
   await expect(page.getByRole('heading', { name: 'When did the first symptoms begin?' })).toBeVisible()
   await page.getByRole('button', { name: '10 minutes ago' }).click()
   await page.getByTestId('next').click()
+  // One tap for medication before collecting (a target taken after medication is flagged for the trainer).
+  await expect(page.getByRole('heading', { name: 'Did you take any medication for this episode before collecting?' })).toBeVisible()
+  await expect(page.getByTestId('next')).toBeDisabled()
+  await page.getByRole('button', { name: 'No medication yet' }).click()
+  await page.getByTestId('next').click()
   await expect(page.getByRole('heading', { name: 'Save it quickly' })).toBeVisible()
   await page.getByRole('button', { name: 'Save the sample' }).click()
   await expect(page.getByTestId('bag-code')).toHaveText(/^T-/)

@@ -64,8 +64,9 @@ describe('stockRosterValue', () => {
     const uses = [use('t1', 7)] // one use in 28 days
     const f = stockForecast(samples, uses, now)
     const v = stockRosterValue(f, bankSummary(samples, uses, now), null, 1)
-    // t1: 2 uses left at 1 use / 28 days → 56 days; controls: none usable.
-    expect(v.target).toEqual({ usesLeft: 2, daysLeft: 56, restockDue: false })
+    // t1: 2 uses left; the target bank is 3 days old, so its 1 use is measured over the 7-day minimum (not the
+    // 28-day window): 2 × 7 ÷ 1 = 14 days → due (≤ 21). Controls: none usable.
+    expect(v.target).toEqual({ usesLeft: 2, daysLeft: 14, restockDue: true })
     expect(v.control).toEqual({ usesLeft: 0, daysLeft: 0, restockDue: true })
     expect(v).toMatchObject({ restockDue: true, compromised: 1, awaitingAnswers: 1, reminderQueuedAt: null })
   })
@@ -120,5 +121,13 @@ describe('the phone checklist', () => {
     expect(fromLocalInput('2026-01-15T08:30', 'Europe/London')).toBe('2026-01-15T08:30:00.000Z')
     expect(toLocalInput(new Date('2026-06-01T07:30:00Z'), 'Europe/London')).toBe('2026-06-01T08:30')
     expect(fromLocalInput('not a time', 'Europe/London')).toBeNull()
+  })
+})
+
+describe('the sample policy: young banks and over-limit uses', () => {
+  it('keeps the new figures through the setting schema and refuses a minimum span over the window', () => {
+    const parsed = samplePolicySchema.safeParse({ ...DEFAULT_SAMPLE_POLICY })
+    expect(parsed.success && parsed.data).toMatchObject({ forecastMinDays: 7, overLimitIsLastUse: true })
+    expect(samplePolicySchema.safeParse({ ...DEFAULT_SAMPLE_POLICY, forecastMinDays: 29 }).success).toBe(false)
   })
 })

@@ -45,6 +45,10 @@ describe('DEFAULT_SAMPLE_POLICY', () => {
       imprintingSingleUse: true, // common practice
       restockThresholdDays: 21, // common practice
       forecastWindowDays: 28, // our own choice
+      forecastMinDays: 7, // our own choice: a week
+      overLimitIsLastUse: true, // common practice
+      targetMaxMinutesAfterSymptoms: 60, // common practice
+      flagMedicatedTargets: true, // common practice
     })
     expect(Object.isFrozen(DEFAULT_SAMPLE_POLICY)).toBe(true)
     expect(MAX_PLAUSIBLE_USE_MINUTES).toBe(1440) // our own choice: 24 hours
@@ -481,8 +485,10 @@ describe('stockForecast', () => {
   // Controls
   //   C1 collected 02-15, uses 02-16, 02-18, 02-20           → used up; consumed 3
   //   C2 collected 02-15, uses 02-22, 02-24                  → usable, 1 left; consumed 2
-  //   uses left 1; rate 5/28; 1 ÷ (5/28) = 5.6 days → daysLeft 5 (≤ 21: restock), runs out
-  //   03-01 12:00 + 5 d 14 h 24 min = 2025-03-07 02:24 UTC.
+  //   The control bank is young: its first sample (02-15 00:00) is 14 d 12 h = 14.5 days old, under the 28-day
+  //   window, so the rate is 5 / 14.5 per day (it was 5/28 when every bank was divided by the whole window).
+  //   uses left 1; 1 × 14.5 ÷ 5 = 2.9 days → daysLeft 2 (≤ 21: restock), runs out
+  //   03-01 12:00 + 2 d 21 h 36 min = 2025-03-04 09:36 UTC (it was 5.6 days, 03-07 02:24).
   const now = at('2025-03-01T12:00:00Z')
   const sample = (id: string, kind: 'target' | 'control', collected: string): Sample => ({
     id,
@@ -526,21 +532,26 @@ describe('stockForecast', () => {
     const f = stockForecast(samples, withoutFuture, now, DEFAULT_SAMPLE_POLICY)
     expect(f.target).toEqual({
       usableSamples: 3,
+      bags: { ready: 3, out: 0, toStore: 0 },
       maintenanceOnlySamples: 1,
       usesLeft: 6,
       ratePerDay: 5 / 28,
+      rateDays: 28, // the oldest target (T4) is far older than the window
       runsOutAt: '2025-04-04T02:24:00.000Z',
       daysLeft: 33,
       agesOutAt: '2025-08-03T00:00:00.000Z',
       restockDue: false,
     })
+    expect(f.control.ratePerDay).toBeCloseTo(5 / 14.5, 12)
     expect(f.control).toEqual({
       usableSamples: 1,
+      bags: { ready: 1, out: 0, toStore: 0 },
       maintenanceOnlySamples: 0,
       usesLeft: 1,
-      ratePerDay: 5 / 28,
-      runsOutAt: '2025-03-07T02:24:00.000Z',
-      daysLeft: 5,
+      ratePerDay: f.control.ratePerDay,
+      rateDays: 14.5,
+      runsOutAt: '2025-03-04T09:36:00.000Z',
+      daysLeft: 2,
       agesOutAt: '2025-08-17T00:00:00.000Z', // 02-15 + 183 d: 13 + 31 + 30 + 31 + 30 + 31 + 17
       restockDue: true,
     })
@@ -561,9 +572,11 @@ describe('stockForecast', () => {
     const f = stockForecast([], [], now, DEFAULT_SAMPLE_POLICY)
     expect(f.control).toEqual({
       usableSamples: 0,
+      bags: { ready: 0, out: 0, toStore: 0 },
       maintenanceOnlySamples: 0,
       usesLeft: 0,
       ratePerDay: 0,
+      rateDays: 28, // no bank at all: the whole window
       runsOutAt: now.toISOString(),
       daysLeft: 0,
       agesOutAt: null,
@@ -579,7 +592,8 @@ describe('stockForecast', () => {
         ...use('OLD', `2025-02-${String(10 + i).padStart(2, '0')}T10:00:00Z`),
         sampleId: `OLD${i}`,
       }))
-    const old = (n: number) => Array.from({ length: n }, (_, i) => sample(`OLD${i}`, 'target', '2025-02-05T00:00:00Z'))
+    // The OLD samples were collected before the window, so the rate is over the whole 28 days.
+    const old = (n: number) => Array.from({ length: n }, (_, i) => sample(`OLD${i}`, 'target', '2025-01-05T00:00:00Z'))
     const f21 = stockForecast([...fresh, ...old(4)], past(4), now, DEFAULT_SAMPLE_POLICY)
     // Each OLD sample has 2 uses left, so the bank has 3 + 4 × 2 = 11 left: 11 ÷ (4/28) = 77 days.
     expect(f21.target).toMatchObject({ usesLeft: 11, daysLeft: 77, restockDue: false })
@@ -587,7 +601,7 @@ describe('stockForecast', () => {
     expect(only.target.restockDue).toBe(false)
     // Sample A alone, uses by discarded samples: 4 uses in the window → 3 ÷ (4/28) = 21 days → due.
     const gone = (n: number) =>
-      Array.from({ length: n }, (_, i) => sample(`OLD${i}`, 'target', '2025-02-05T00:00:00Z')).map((s) => ({
+      Array.from({ length: n }, (_, i) => sample(`OLD${i}`, 'target', '2025-01-05T00:00:00Z')).map((s) => ({
         ...s,
         discardedAt: at('2025-02-28T00:00:00Z'),
       }))

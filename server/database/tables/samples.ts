@@ -35,6 +35,8 @@ export const samples = sqliteTable('samples', {
   bagCode: text('bag_code').notNull(),
   collectedAt: integer('collected_at', { mode: 'timestamp_ms' }).notNull(),
   firstSymptomsAt: integer('first_symptoms_at', { mode: 'timestamp_ms' }),
+  // Targets: medication for this episode taken before collecting (null: not recorded).
+  medicationBefore: integer('medication_before', { mode: 'boolean' }),
   collectorId: text('collector_id').references(() => users.id, { onDelete: 'set null' }),
   rolls: integer('rolls').notNull(),
   // The pre-collection answers as given (ISO times, null for "not in that time", the list of unknowns).
@@ -86,3 +88,11 @@ export const sampleBankStatus = sqliteTable('sample_bank_status', {
   reminderQueuedAt: integer('reminder_queued_at', { mode: 'timestamp_ms' }),
   checkedAt: integer('checked_at', { mode: 'timestamp_ms' }).notNull().default(now),
 }, t => [index('sample_bank_status_checked_idx').on(t.checkedAt)])
+
+/** Per household: the trainer's choice to keep flagged targets (late or after medication, see targetTiming) out of training. */
+export const sampleBankSettings = sqliteTable('sample_bank_settings', {
+  clientId: text('client_id').primaryKey().references(() => clients.id, { onDelete: 'cascade' }),
+  excludeFlaggedTargets: integer('exclude_flagged_targets', { mode: 'boolean' }).notNull().default(false),
+  updatedById: text('updated_by_id').references(() => users.id, { onDelete: 'set null' }),
+  ...timestamps,
+})

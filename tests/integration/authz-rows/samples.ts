@@ -23,6 +23,8 @@ async function openUse(admin: Agent): Promise<Ctx> {
 }
 
 export const rows: Row[] = [
+  // The trainer's choice to keep flagged targets out of training: the household's handler is refused.
+  { route: 'PUT /api/clients/[id]/sample-settings', path: `/api/clients/${CLIENT_A}/sample-settings`, body: { excludeFlaggedTargets: true }, mutates: true, expect: clientA(200, 403) },
   {
     route: 'GET /api/clients/[id]/samples', path: `/api/clients/${CLIENT_A}/samples`,
     expect: {
