@@ -319,3 +319,72 @@ describe('the policy is the admin\'s', () => {
     await query("delete from business_settings where key = 'samples'")
   })
 })
+
+describe('second-pass rules through the API', () => {
+  // Demo Fairweather targets 19 and 20: collected 95 minutes into a migraine, and after a painkiller.
+  const LATE_TARGET = seedId('sample:fairweather:19')
+  const MEDICATED_TARGET = seedId('sample:fairweather:20')
+
+  it('a target records medication before collecting; a late one is flagged (60 minutes, common practice)', async () => {
+    const handler = await signIn(baseUrl, HANDLER_A)
+    const res = await collect(handler, { kind: 'target', firstSymptomsAt: minutesAgo(75), medicationBefore: false })
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    const s = await sampleOf(handler, res.body.id)
+    expect(s).toMatchObject({ medicationBefore: false, timing: { minutesAfterSymptoms: 74, late: true, medicated: false, flagged: true } })
+    // A control never carries it; a malformed answer is refused and nothing is written.
+    const control = await collect(handler, { medicationBefore: true })
+    expect((await sampleOf(handler, control.body.id)).medicationBefore).toBeNull()
+    const before = await count('samples')
+    const bad = await collect(handler, { kind: 'target', firstSymptomsAt: minutesAgo(5), medicationBefore: 'maybe' })
+    expect(bad.status).toBe(422)
+    expect(await count('samples')).toBe(before)
+  })
+
+  it('the trainer keeps flagged targets out of training: they leave the stock and cannot be used; the household cannot change it', async () => {
+    const trainer = await signIn(baseUrl, TRAINER_A)
+    const handler = await signIn(baseUrl, HANDLER_A)
+    const before = await bank(trainer)
+    expect(before.samples.find((x: { id: string }) => x.id === LATE_TARGET)).toMatchObject({ state: 'ready', timing: { flagged: true, late: true } })
+    expect(before.samples.find((x: { id: string }) => x.id === MEDICATED_TARGET)).toMatchObject({ state: 'ready', timing: { flagged: true, medicated: true } })
+
+    expect((await handler.request('PUT', `/api/clients/${CLIENT_A}/sample-settings`, { excludeFlaggedTargets: true })).status).toBe(403)
+    expect((await trainer.request('PUT', `/api/clients/${CLIENT_A}/sample-settings`, { excludeFlaggedTargets: 'yes' })).status).toBe(422)
+    const res = await trainer.request('PUT', `/api/clients/${CLIENT_A}/sample-settings`, { excludeFlaggedTargets: true })
+    expect(res.status, JSON.stringify(res.body)).toBe(200)
+    expect(res.body).toEqual({ clientId: CLIENT_A, excludeFlaggedTargets: true })
+
+    const after = await bank(handler)
+    expect(after.samples.find((x: { id: string }) => x.id === LATE_TARGET)).toMatchObject({ state: 'kept-out', list: 'not-for-training', usesLeft: 0, useUntil: null })
+    // Two bags of 3 unused uses each leave the stock.
+    expect(after.forecast.target.usableSamples).toBe(before.forecast.target.usableSamples - 2)
+    expect(after.forecast.target.usesLeft).toBe(before.forecast.target.usesLeft - 6)
+    const refused = await handler.post(`/api/samples/${LATE_TARGET}/uses`, { outAt: minutesAgo(0), stage: 'discrimination' })
+    expect(refused.status).toBe(422)
+    expect(refused.body.data.rules).toEqual(['kept-out'])
+    expect(await count('sample_uses', 'sample_id = ?', [LATE_TARGET])).toBe(0)
+    expect(await count('audit_log', "action = 'sample-settings.set' and client_id = ?", [CLIENT_A])).toBe(1)
+  })
+
+  it('a sample put back after more than 5 minutes is thrown away: that use was its last (common practice)', async () => {
+    const handler = await signIn(baseUrl, HANDLER_A)
+    const out = await handler.post(`/api/samples/${FRESH_TARGET}/uses`, { outAt: minutesAgo(7), stage: 'discrimination' })
+    expect(out.status, JSON.stringify(out.body)).toBe(201)
+    const back = await handler.patch(`/api/sample-uses/${out.body.use.id}`, { backAt: minutesAgo(0) })
+    expect(back.status, JSON.stringify(back.body)).toBe(200)
+    expect(back.body).toMatchObject({ discards: true, use: { overLimit: true, discarded: true } })
+    expect(back.body.warnings[0].message).toMatch(/this was its last use/)
+    expect(await sampleOf(handler, FRESH_TARGET)).toMatchObject({ status: 'discarded', state: 'discarded', usesLeft: 0, discardReason: 'Out of the freezer longer than 5 minutes: that use was its last.' })
+  })
+
+  it('bags not yet in the freezer count in the stock and are listed to finish, and the card says how many', async () => {
+    const handler = await signIn(baseUrl, HANDLER_A)
+    const b = await bank(handler)
+    const toStore = b.samples.filter((x: { state: string }) => x.state === 'to-store')
+    expect(toStore.map((x: { id: string }) => x.id).sort()).toEqual([seedId('sample:fairweather:17'), seedId('sample:fairweather:18')].sort())
+    expect(toStore.every((x: { list: string, inStock: boolean }) => x.list === 'to-finish' && x.inStock)).toBe(true)
+    expect(b.forecast.target.bags.toStore).toBe(2)
+    const inStock = b.samples.filter((x: { kind: string, inStock: boolean }) => x.kind === 'target' && x.inStock).length
+    expect(b.forecast.target.usableSamples).toBe(inStock)
+    expect(b.forecast.target.bags.ready + b.forecast.target.bags.toStore + b.forecast.target.bags.out).toBe(inStock)
+  })
+})
