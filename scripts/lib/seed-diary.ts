@@ -46,6 +46,8 @@ interface DiarySeed {
   onsetHours: [number, number]
   stretches: Stretch[]
   reviews?: { nth: number, comment: string }[]
+  /** Hand-placed moments, written after the generated ones: minutes of a day `daysAgo` (UTC). */
+  extra?: { kind: 'alert' | 'episode', daysAgo: number, minute: number }[]
 }
 
 const DIARIES: DiarySeed[] = [
@@ -55,6 +57,13 @@ const DIARIES: DiarySeed[] = [
     reviews: [
       { nth: 2, comment: 'Good clear nudge; praised and rewarded as practised.' },
       { nth: 5, comment: 'No migraine followed: Juniper may have picked up on the neighbour\'s dog. Keep logging.' },
+    ],
+    extra: [
+      // A migraine that came back: one alert at 06:20, onset at 07:00 and again at 07:30. The alert warns only the
+      // first (it used to count for both).
+      { kind: 'alert', daysAgo: 33, minute: 6 * 60 + 20 }, { kind: 'episode', daysAgo: 33, minute: 7 * 60 }, { kind: 'episode', daysAgo: 33, minute: 7 * 60 + 30 },
+      // Both buttons tapped together as the migraine began: an alert at onset, not a warning (it used to be lead 0).
+      { kind: 'episode', daysAgo: 47, minute: 8 * 60 + 10 }, { kind: 'alert', daysAgo: 47, minute: 8 * 60 + 10 },
     ],
   },
   {
@@ -118,6 +127,16 @@ export function diaryRows(today: Date, seedId: (name: string) => string): Row[] 
         const at = today.getTime() - day * DAY + (18 * 60 + Math.floor(random() * 180)) * MINUTE
         const nearEpisode = rows.some(r => r.clientId === clientId && r.kind === 'episode' && Math.abs((r.occurredAt as Date).getTime() - at) < DAY)
         if (!nearEpisode) addAlert(at)
+      }
+    }
+    for (const x of d.extra ?? []) {
+      const at = today.getTime() - x.daysAgo * DAY + x.minute * MINUTE
+      if (x.kind === 'alert') addAlert(at)
+      else {
+        rows.push({
+          id: seedId(`diary:${d.key}:${n++}`), clientId, kind: 'episode', occurredAt: new Date(at), severity: 'moderate',
+          action: 'Took my medication', createdById: handlerId, createdAt: new Date(at + 60 * MINUTE), updatedAt: new Date(at + 60 * MINUTE),
+        })
       }
     }
   }

@@ -1,10 +1,11 @@
 // The demo households' scent-sample banks (used by seed-data.ts). Everything here is invented; the rules the rows
 // follow (6 rolls a bag, 5 bags an outer bag, 3 uses of up to 5 minutes, 183/365 days) are the default policy's,
 // which is common practice. The stock status rows are computed with the same pure logic the server uses.
+import { eq } from 'drizzle-orm'
 import * as s from '../../server/database/schema'
 import type { Database } from '../../server/database/client'
 import {
-  DEFAULT_SAMPLE_POLICY, bankSummary, restockTransition, sampleState, seededRandom, stockForecast, stockRosterValue, uniqueBagCode,
+  DEFAULT_SAMPLE_POLICY, bankSummary, discardReasonOf, restockTransition, sampleState, seededRandom, stockForecast, stockRosterValue, uniqueBagCode, useDiscards,
   type Bag, type Sample, type SampleKind, type SampleUse,
 } from '../../shared/utils/samples'
 
@@ -33,13 +34,15 @@ interface SampleSeed {
 }
 interface BankSeed {
   key: string
-  /** Training stage of the uses. */
-  stage: 'discrimination' | 'alert' | 'maintenance'
+  /** Training stage of the uses (imprinting uses throw the sample away: single use, common practice). */
+  stage: 'imprinting' | 'discrimination' | 'alert' | 'maintenance'
   samples: SampleSeed[]
   /** A use of each kind every this many days over the last 4 weeks, on the oldest usable sample. */
   useEvery: Record<SampleKind, number>
   /** The household was reminded to collect this many days ago (its low-stock episode is under way). */
   remindedDaysAgo?: number
+  /** The target use of this many days ago stayed out 9 minutes: over the limit, so it was the sample's last. */
+  overLimitDaysAgo?: number
 }
 
 const t = (daysAgo: number) => ({ kind: 'target' as const, daysAgo })
@@ -64,8 +67,15 @@ export const SAMPLE_BANKS: BankSeed[] = [
   },
   // A long-running placed team in maintenance work: an expired target, an old maintenance-only one, a compromised control.
   {
-    key: 'nakashima', stage: 'maintenance', useEvery: { target: 7, control: 14 },
+    key: 'nakashima', stage: 'maintenance', useEvery: { target: 7, control: 14 }, overLimitDaysAgo: 20,
     samples: [t(400), t(200), t(90), t(60), c(30), { kind: 'control', daysAgo: 20, ateMinutesBefore: 20 }, c(10)],
+  },
+  // A young bank: the old one was lost when the freezer failed; ten targets and eight controls collected eight days
+  // ago, and imprinting starts again (each imprinting use throws its sample away). Measured over its own eight days,
+  // the targets run out within 21 days: a restock is due (over the whole 28-day window it would read 42 days).
+  {
+    key: 'moreau', stage: 'imprinting', useEvery: { target: 2, control: 4 },
+    samples: [...Array.from({ length: 10 }, () => t(8)), ...Array.from({ length: 8 }, () => c(8))],
   },
   // Client B: a small, fresh bank.
   {
@@ -128,6 +138,7 @@ export async function seedSampleBanks(tx: Tx, opts: { today: Date, seedId: (name
     }))
     const pureUses: SampleUse[] = []
     const useRows: (typeof s.sampleUses.$inferInsert)[] = []
+    const thrown = new Map<string, { at: Date, reason: string }>()
     for (const kind of ['target', 'control'] as const) {
       for (let d = 27; d >= 1; d -= bank.useEvery[kind]) {
         const outAt = new Date(today.getTime() - d * DAY + 18 * 60 * MIN) // 18:00 UTC, an evening session
@@ -137,12 +148,17 @@ export async function seedSampleBanks(tx: Tx, opts: { today: Date, seedId: (name
           return status === 'usable' || (bank.stage === 'maintenance' && status === 'maintenance-only')
         })
         if (!pick) continue
-        const backAt = new Date(outAt.getTime() + 3 * MIN)
-        pureUses.push({ sampleId: pick.id, outAt, backAt, discarded: false, stage: bank.stage })
-        useRows.push({ id: seedId(`sample-use:${bank.key}:${kind}:${d}`), sampleId: pick.id, clientId, outAt, backAt, stage: bank.stage, recordedById: handler.id, createdAt: backAt, updatedAt: backAt })
+        const overLimit = kind === 'target' && bank.overLimitDaysAgo === d
+        const backAt = new Date(outAt.getTime() + (overLimit ? 9 : 3) * MIN)
+        const use = { discarded: false, stage: bank.stage, overLimit }
+        const discards = useDiscards(use, policy)
+        pureUses.push({ sampleId: pick.id, outAt, backAt, ...use, discarded: discards })
+        useRows.push({ id: seedId(`sample-use:${bank.key}:${kind}:${d}`), sampleId: pick.id, clientId, outAt, backAt, stage: bank.stage, discarded: discards, overLimit, recordedById: handler.id, createdAt: backAt, updatedAt: backAt })
+        if (discards) thrown.set(pick.id, { at: backAt, reason: discardReasonOf(use, policy)! })
       }
     }
     if (useRows.length) await tx.insert(s.sampleUses).values(useRows)
+    for (const [id, x] of thrown) await tx.update(s.samples).set({ discardedAt: x.at, discardReason: x.reason }).where(eq(s.samples.id, id))
 
     // The stock status the roster reads, as the server computes it.
     const forecast = stockForecast(pureSamples, pureUses, now, policy)
