@@ -28,7 +28,10 @@ const clean = { lastAteAt: null, lastDrankOtherThanWaterAt: null, lastBrushedTee
 
 async function query(sql: string, args: (string | number)[] = []) {
   const db = libsql({ url: databaseUrl })
-  try { return (await db.execute({ sql, args })).rows }
+  try {
+    await db.execute('PRAGMA busy_timeout = 5000') // the server's periodic check may be writing
+    return (await db.execute({ sql, args })).rows
+  }
   finally { db.close() }
 }
 const count = async (table: string, where = '1=1', args: (string | number)[] = []) => Number((await query(`select count(*) n from ${table} where ${where}`, args))[0]!.n)
