@@ -74,7 +74,7 @@ export const SAMPLE_BANKS: BankSeed[] = [
   // ago, and imprinting starts again (each imprinting use throws its sample away). Measured over its own eight days,
   // the targets run out within 21 days: a restock is due (over the whole 28-day window it would read 42 days).
   {
-    key: 'moreau', stage: 'imprinting', useEvery: { target: 2, control: 4 },
+    key: 'moreau', stage: 'imprinting', useEvery: { target: 2, control: 4 }, remindedDaysAgo: 1,
     samples: [...Array.from({ length: 10 }, () => t(8)), ...Array.from({ length: 8 }, () => c(8))],
   },
   // Client B: a small, fresh bank.
