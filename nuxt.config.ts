@@ -8,7 +8,7 @@ export default defineNuxtConfig({
   // Separate build folders let several checkouts or helpers build side by side (default .nuxt and .output).
   buildDir: process.env.NUXT_BUILD_DIR || '.nuxt',
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils', 'nuxt-security'],
   css: ['@fontsource-variable/inter/index.css', '~/assets/css/main.css'],
   tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
   app: {
@@ -43,10 +43,68 @@ export default defineNuxtConfig({
       cookie: { sameSite: 'lax' },
     },
   },
+  // Browser security headers through nuxt-security (docs/security.md "Headers"). Its request-size limiter, rate
+  // limiter, XSS filter and CORS handler are off: server/middleware does those for this app (body classes, throttle,
+  // origin check), and nothing cross-origin calls us.
+  security: {
+    nonce: true,
+    sri: true,
+    removeLoggers: false,
+    rateLimiter: false,
+    xssValidator: false,
+    requestSizeLimiter: false,
+    corsHandler: false,
+    allowedMethodsRestricter: false,
+    hidePoweredBy: true,
+    headers: {
+      contentSecurityPolicy: {
+        'default-src': ["'self'"],
+        'base-uri': ["'none'"],
+        'object-src': ["'none'"],
+        // Nuxt's own inline scripts carry the per-request nonce; the bundles they load are trusted through it.
+        'script-src': ["'self'", "'strict-dynamic'", "'nonce-{{nonce}}'"],
+        'script-src-attr': ["'none'"],
+        // Vue and the charts set style attributes; inline styles cannot run code (an accepted gap, docs/security.md).
+        'style-src': ["'self'", "'unsafe-inline'"],
+        'img-src': ["'self'", 'data:', 'blob:'],
+        // Homework videos play from our routes, and from the phone's own file before it is sent (blob:).
+        'media-src': ["'self'", 'blob:'],
+        'font-src': ["'self'"],
+        'connect-src': ["'self'"],
+        'worker-src': ["'self'"],
+        'manifest-src': ["'self'"],
+        'frame-src': ["'none'"],
+        'frame-ancestors': ["'none'"],
+        'form-action': ["'self'"],
+        // Served over plain HTTP in development and tests; production sits behind TLS with HSTS below.
+        'upgrade-insecure-requests': false,
+      },
+      xFrameOptions: 'DENY',
+      referrerPolicy: 'no-referrer',
+      // One year (OWASP HTTP Headers Cheat Sheet); browsers ignore it over plain HTTP.
+      strictTransportSecurity: { maxAge: 31536000, includeSubdomains: true },
+      crossOriginEmbedderPolicy: 'unsafe-none',
+      permissionsPolicy: {
+        'camera': [],
+        'microphone': [],
+        'geolocation': [],
+        'display-capture': [],
+        'payment': [],
+        'usb': [],
+        // Homework videos may go full screen.
+        'fullscreen': ['self'],
+      },
+    },
+  },
+  routeRules: {
+    // API answers carry health and payment data: never kept by a browser or a shared cache.
+    '/api/**': { headers: { 'cache-control': 'no-store' } },
+  },
   nitro: {
+    // useEvent() anywhere in a request (the logger puts the request id on every line).
+    experimental: { tasks: false, asyncContext: true },
     output: { dir: process.env.NUXT_OUTPUT_DIR || '.output' },
     imports: { dirs: ['server/services'] },
-    experimental: { tasks: false },
     hooks: {
       // drizzle-kit's migrations are not bundled; copy them beside the built server so start-up can apply them.
       compiled(nitro) {

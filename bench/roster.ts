@@ -40,7 +40,7 @@ try {
     await new Promise(r => setTimeout(r, 100))
   }
   async function cookieFor(email: string) {
-    const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) })
+    const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json', 'origin': base }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) })
     return res.headers.getSetCookie()[0]!.split(';')[0]!
   }
   const who = { admin: await cookieFor('admin@forescent.test'), trainer: await cookieFor('trainer@forescent.test') }

@@ -105,7 +105,7 @@ function patch(cookie: string, path: string, offset: number, end: number): Promi
   return new Promise((done, fail) => {
     const req = request({
       host: '127.0.0.1', port, path, method: 'PATCH',
-      headers: { cookie, 'Tus-Resumable': '1.0.0', 'Upload-Offset': String(offset), 'Content-Type': 'application/offset+octet-stream', 'Content-Length': String(end - offset) },
+      headers: { cookie, 'origin': base, 'Tus-Resumable': '1.0.0', 'Upload-Offset': String(offset), 'Content-Type': 'application/offset+octet-stream', 'Content-Length': String(end - offset) },
     }, (res) => {
       let body = ''
       res.on('data', (d) => { body += d })
@@ -128,7 +128,7 @@ try {
     if (i > 300) throw new Error('server did not start')
     await new Promise(r => setTimeout(r, 100))
   }
-  const login = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'handler@forescent.test', password: DEMO_PASSWORD }) })
+  const login = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json', 'origin': base }, body: JSON.stringify({ email: 'handler@forescent.test', password: DEMO_PASSWORD }) })
   const cookie = login.headers.getSetCookie()[0]!.split(';')[0]!
   const assignmentId = randomUUID()
   const sql = createClient({ url })
@@ -142,7 +142,7 @@ try {
   const hwmBefore = statusKb(pid, 'VmHWM')
 
   const b64 = (s: string) => Buffer.from(s).toString('base64')
-  const created = await fetch(`${base}/api/homework-uploads`, { method: 'POST', headers: { cookie, 'Tus-Resumable': '1.0.0', 'Upload-Length': String(TOTAL), 'Upload-Metadata': `assignmentId ${b64(assignmentId)},filename ${b64('bench.mp4')}` } })
+  const created = await fetch(`${base}/api/homework-uploads`, { method: 'POST', headers: { cookie, 'origin': base, 'Tus-Resumable': '1.0.0', 'Upload-Length': String(TOTAL), 'Upload-Metadata': `assignmentId ${b64(assignmentId)},filename ${b64('bench.mp4')}` } })
   if (created.status !== 201) throw new Error(`create: ${created.status} ${await created.text()}`)
   const path = created.headers.get('location')!
 

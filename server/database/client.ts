@@ -1,4 +1,4 @@
-import { mkdirSync, existsSync } from 'node:fs'
+import { chmodSync, closeSync, existsSync, mkdirSync, openSync } from 'node:fs'
 import { dirname, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { createClient, type Client } from '@libsql/client'
@@ -15,13 +15,28 @@ export const BUSY_TIMEOUT_MS = 5000
 export function openDatabase(url = DEFAULT_DATABASE_URL, authToken?: string, opts: { serialiseWrites?: boolean } = {}): { client: Client, db: Database } {
   if (url.startsWith('file:')) {
     const path = url.slice('file:'.length)
-    if (path && path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true })
+    if (path && path !== ':memory:') protectDatabaseFile(path)
   }
   // `timeout` is applied by the client to every pooled connection as SQLite's busy timeout; libSQL opens
   // connections with foreign keys enforced. Both hold inside transactions (see tests/integration/db.test.ts).
   const raw = createClient({ url, authToken: authToken || undefined, timeout: BUSY_TIMEOUT_MS })
   const client = url.startsWith('file:') && opts.serialiseWrites !== false ? serialiseWrites(raw) : raw
   return { client, db: drizzle(client, { schema }) }
+}
+
+/**
+ * The database holds health and payment data: its folder is created 0700 and the file 0600 (owner only), before
+ * SQLite opens it. SQLite gives its -wal and -shm files the database file's permissions, so they are 0600 too; files
+ * left readable by an older version are tightened here as well.
+ */
+export function protectDatabaseFile(path: string) {
+  const full = resolve(path.split('?')[0]!)
+  const dir = dirname(full)
+  if (!existsSync(dir)) mkdirSync(dir, { recursive: true, mode: 0o700 })
+  if (!existsSync(full)) closeSync(openSync(full, 'a', 0o600))
+  for (const f of [full, `${full}-wal`, `${full}-shm`]) {
+    if (existsSync(f)) chmodSync(f, 0o600)
+  }
 }
 
 const READ_ONLY = /^\s*(select\b|pragma\s+\w+\s*$|explain\b)/i

@@ -24,7 +24,7 @@ export default defineEventHandler(async (event) => {
   const absoluteMs = Number(rc.sessionAbsoluteSeconds) * 1000
   const [row] = await useDb().select({
     id: users.id, role: users.role, name: users.name, email: users.email, timeZone: users.timeZone,
-    disabledAt: users.disabledAt, sessionVersion: users.sessionVersion,
+    disabledAt: users.disabledAt, sessionVersion: users.sessionVersion, totpEnabledAt: users.totpEnabledAt,
   }).from(users).where(eq(users.id, session.user.id)).limit(1)
   const expired = !session.issuedAt || now - session.issuedAt > absoluteMs || !session.seenAt || now - session.seenAt > idleMs
   if (!row || row.disabledAt || row.sessionVersion !== session.sv || expired) {
@@ -32,8 +32,10 @@ export default defineEventHandler(async (event) => {
     return
   }
   event.context.authUser = { id: row.id, role: row.role, name: row.name, email: row.email, timeZone: row.timeZone }
+  // Staff without a second factor while the office requires one may only set it up (requireUser enforces it).
+  if (row.role !== 'handler' && !row.totpEnabledAt) event.context.mustEnrolSecondFactor = await mustEnrolSecondFactor(row)
   // Refresh often enough that an active person is never timed out (a quarter of the idle limit at most).
-  if (now - session.seenAt > Math.min(SEEN_REFRESH_MS, idleMs / 4) || row.role !== session.user.role || row.name !== session.user.name) {
+  if (now - (session.seenAt ?? 0) > Math.min(SEEN_REFRESH_MS, idleMs / 4) || row.role !== session.user.role || row.name !== session.user.name) {
     await replaceUserSession(event, { ...session, user: event.context.authUser, seenAt: now }, sessionCookieConfig())
   }
 })

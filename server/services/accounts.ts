@@ -27,6 +27,27 @@ export async function endAllSessions(tx: DbOrTx, userId: string) {
   await tx.update(users).set({ sessionVersion: sql`${users.sessionVersion} + 1` }).where(eq(users.id, userId))
 }
 
+// The second step of a sign-in may be taken within 5 minutes of the password (common practice).
+const SECOND_FACTOR_STEP_MS = 5 * 60 * 1000
+
+/** Remembers, in the sealed cookie, that this person's password was right and a second factor is awaited. */
+export async function askForSecondFactor(event: H3Event, user: UserRow) {
+  await replaceUserSession(event, { pendingSecondFactor: { userId: user.id, sv: user.sessionVersion, until: Date.now() + SECOND_FACTOR_STEP_MS } }, sessionCookieConfig())
+  logEvent('auth.second-factor.asked', { userId: user.id, role: user.role }, 'info', event)
+}
+
+/** The end of every successful sign-in: recorded, the account's failures forgotten, the session started. */
+export async function finishSignIn(event: H3Event, user: UserRow, counters: Array<[ThrottleName, string]>) {
+  await useDb().transaction(async (tx) => {
+    await tx.update(users).set({ lastSignInAt: new Date() }).where(eq(users.id, user.id))
+    await logAudit(tx, { actorId: user.id, action: 'signed-in', entityType: 'user', entityId: user.id })
+  })
+  // The owner got in: forget this account's failures (the per-address counter stays, it guards other accounts).
+  await clearAttempts(counters.filter(([name]) => name !== 'signInAddress'))
+  logEvent('auth.sign-in.succeeded', { userId: user.id, role: user.role }, 'info', event)
+  await startSession(event, user)
+}
+
 // A real hash to compare against when the e-mail is unknown, so timing does not reveal which e-mails exist.
 let dummyHash: Promise<string> | undefined
 
@@ -48,7 +69,8 @@ export async function createInvitation(inviter: AuthUser, input: InvitationInput
 
 /** Writes an invitation and its e-mail inside the caller's transaction. */
 export async function createInvitationIn(tx: Tx, inviter: AuthUser, input: InvitationInput) {
-  const { token, hash } = newToken()
+  // Stored until the e-mail is sent with a hash of a secret nobody holds: the link's real token is minted at sending.
+  const { hash } = newToken()
   const [existing] = await tx.select({ id: users.id, role: users.role }).from(users).where(eq(users.email, input.email)).limit(1)
   if (existing && input.role === 'trainer') {
     throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${input.email} already has an account.` })
@@ -56,6 +78,11 @@ export async function createInvitationIn(tx: Tx, inviter: AuthUser, input: Invit
   if (existing && existing.role !== 'handler') {
     throw createError({ statusCode: 409, statusMessage: 'Conflict', message: `${input.email} belongs to a staff account and cannot be a handler.` })
   }
+  // A new invitation replaces the open ones to the same person for the same place: only the latest link works.
+  await tx.update(invitations).set({ revokedAt: new Date() }).where(and(
+    eq(invitations.email, input.email), isNull(invitations.acceptedAt), isNull(invitations.revokedAt),
+    input.role === 'handler' ? eq(invitations.clientId, input.clientId) : isNull(invitations.clientId),
+  ))
   const [row] = await tx.insert(invitations).values({
     tokenHash: hash,
     email: input.email,
@@ -77,11 +104,12 @@ export async function createInvitationIn(tx: Tx, inviter: AuthUser, input: Invit
       paragraphs: input.role === 'trainer'
         ? [`${inviter.name} has invited you to work as a trainer on Forescent.`, 'Open the link below to choose your password. The link works once and expires in 7 days.']
         : [`${inviter.name} has invited you to the training programme of ${clientName}.`, 'On Forescent you will log sample collections, homework sessions and real alerts, and see your dog\'s progress.', 'Open the link below to choose your password. The link works once and expires in 7 days.'],
-      action: { label: 'Accept the invitation', url: appUrl(`/invitation/${token}`) },
+      action: { label: 'Accept the invitation', url: appUrl(`/invitation/${SECRET_LINK_TOKEN}`) },
     }),
+    secretLink: { kind: 'invitation', id: row!.id },
   })
   await logAudit(tx, { actorId: inviter.id, action: 'invitation.created', entityType: 'invitation', entityId: row!.id, clientId: row!.clientId, data: { email: input.email, name: input.name, role: input.role } })
-  return { invitation: row!, token }
+  return { invitation: row! }
 }
 
 export async function findOpenInvitation(token: string) {
@@ -123,29 +151,38 @@ export async function acceptInvitation(token: string, password: string, name?: s
   })
 }
 
-export async function requestPasswordReset(email: string) {
+/**
+ * Queues a reset link for the account with this e-mail, if there is one. Only the newest link works: asking again
+ * revokes the older ones. The token is minted when the e-mail is sent (secretLink), so the database never holds it.
+ */
+export async function requestPasswordReset(email: string): Promise<boolean> {
   const [user] = await useDb().select().from(users).where(eq(users.email, email)).limit(1)
-  if (!user || user.disabledAt || !user.passwordHash) return
-  const { token, hash } = newToken()
+  if (!user || user.disabledAt || !user.passwordHash) return false
+  const { hash } = newToken()
   await useDb().transaction(async (tx) => {
-    await tx.insert(passwordResets).values({ userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + PASSWORD_RESET_TTL_MS) })
+    await tx.update(passwordResets).set({ revokedAt: new Date() })
+      .where(and(eq(passwordResets.userId, user.id), isNull(passwordResets.usedAt), isNull(passwordResets.revokedAt)))
+    const [reset] = await tx.insert(passwordResets).values({ userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + PASSWORD_RESET_TTL_MS) }).returning({ id: passwordResets.id })
     await queueEmail(tx, {
       to: user.email,
       ...composeEmail({
         subject: 'Reset your Forescent password',
         greeting: `Hello ${user.name},`,
         paragraphs: ['Someone asked to reset the password of your Forescent account. If it was you, open the link below within one hour.', 'If it was not you, ignore this e-mail: your password stays as it is.'],
-        action: { label: 'Choose a new password', url: appUrl(`/reset-password?token=${token}`) },
+        action: { label: 'Choose a new password', url: appUrl(`/reset-password?token=${SECRET_LINK_TOKEN}`) },
       }),
+      secretLink: { kind: 'password-reset', id: reset!.id },
     })
   })
+  return true
 }
 
 export async function resetPassword(token: string, password: string): Promise<UserRow> {
   const passwordHash = await hashPassword(password)
   return useDb().transaction(async (tx) => {
     const [reset] = await tx.update(passwordResets).set({ usedAt: new Date() }).where(and(
-      eq(passwordResets.tokenHash, hashToken(token)), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, new Date()),
+      eq(passwordResets.tokenHash, hashToken(token)), isNull(passwordResets.usedAt), isNull(passwordResets.revokedAt),
+      gt(passwordResets.expiresAt, new Date()),
     )).returning()
     if (!reset) throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'This reset link has expired or was already used. Ask for a new one from the sign-in page.' })
     const [user] = await tx.update(users).set({ passwordHash, sessionVersion: sql`${users.sessionVersion} + 1` })

@@ -1,5 +1,5 @@
-import { and, asc, eq, lte, sql } from 'drizzle-orm'
-import { outbox } from '../database/schema'
+import { and, asc, eq, gt, isNull, lte, sql } from 'drizzle-orm'
+import { invitations, outbox, passwordResets } from '../database/schema'
 import type { EmailContent } from '../utils/mail'
 
 /**
@@ -8,7 +8,23 @@ import type { EmailContent } from '../utils/mail'
  * message queued and retried like any sending failure).
  */
 export interface OutboxAttachment { kind: 'invoice-pdf', id: string }
-export interface QueuedEmail extends EmailContent { to: string, dedupeKey?: string, attachments?: OutboxAttachment[] }
+/** A single-use link in the message, by reference: its token is minted at sending (see SECRET_LINK_TOKEN). */
+export interface OutboxSecretLink { kind: 'password-reset' | 'invitation', id: string }
+export interface QueuedEmail extends EmailContent { to: string, dedupeKey?: string, attachments?: OutboxAttachment[], secretLink?: OutboxSecretLink }
+
+/**
+ * Mints the link's token now and stores only its hash on the reset or invitation row (replacing any earlier one, so
+ * only the link in the message being sent works). Null when the link was revoked, used or expired meanwhile.
+ */
+async function mintSecretLinkToken(link: OutboxSecretLink): Promise<string | null> {
+  const { token, hash } = newToken()
+  const db = useDb()
+  const now = new Date()
+  const updated = link.kind === 'password-reset'
+    ? await db.update(passwordResets).set({ tokenHash: hash }).where(and(eq(passwordResets.id, link.id), isNull(passwordResets.usedAt), isNull(passwordResets.revokedAt), gt(passwordResets.expiresAt, now))).returning({ id: passwordResets.id })
+    : await db.update(invitations).set({ tokenHash: hash }).where(and(eq(invitations.id, link.id), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now))).returning({ id: invitations.id })
+  return updated.length ? token : null
+}
 
 async function renderAttachments(list: OutboxAttachment[] | null) {
   if (!list?.length) return undefined
@@ -30,6 +46,7 @@ export async function queueEmail(tx: DbOrTx, mail: QueuedEmail) {
     htmlBody: mail.html,
     dedupeKey: mail.dedupeKey ?? null,
     attachments: mail.attachments?.length ? mail.attachments : null,
+    secretLink: mail.secretLink ?? null,
   }).onConflictDoNothing({ target: outbox.dedupeKey })
   scheduleOutboxRun()
 }
@@ -45,10 +62,11 @@ let running: Promise<number> | null = null
 let timer: ReturnType<typeof setTimeout> | null = null
 
 export function scheduleOutboxRun(delayMs = 50) {
-  if (timer) return
+  // An instance with OUTBOX_WORKER=off never sends (another instance does), not even right after queueing.
+  if (timer || process.env.OUTBOX_WORKER === 'off') return
   timer = setTimeout(() => {
     timer = null
-    void deliverDueEmails().catch(err => console.error('[outbox]', err))
+    void deliverDueEmails().catch(err => logEvent('mail.run-failed', { err: String((err as Error)?.message ?? err) }, 'error'))
   }, delayMs)
 }
 
@@ -70,13 +88,26 @@ export function deliverDueEmails(limit = 25): Promise<number> {
           .returning({ id: outbox.id })
         if (!claimed.length) continue
         try {
+          let { textBody: text, htmlBody: html } = row
+          if (row.secretLink) {
+            const token = await mintSecretLinkToken(row.secretLink)
+            if (!token) {
+              logEvent('mail.link-withdrawn', { outboxId: row.id, kind: row.secretLink.kind })
+              // A newer link replaced this one (or it expired or was used) before it went out: sending it would only mislead.
+              await db.update(outbox).set({ status: 'failed', lastError: 'The single-use link was replaced, used or expired before it could be sent.' }).where(eq(outbox.id, row.id))
+              continue
+            }
+            text = text.replaceAll(SECRET_LINK_TOKEN, token)
+            html = html?.replaceAll(SECRET_LINK_TOKEN, token) ?? null
+          }
           const attachments = await renderAttachments(row.attachments)
-          await useMailer().sendMail({ from, to: row.toAddress, subject: row.subject, text: row.textBody, html: row.htmlBody ?? undefined, attachments })
+          await useMailer().sendMail({ from, to: row.toAddress, subject: row.subject, text, html: html ?? undefined, attachments })
           await db.update(outbox).set({ status: 'sent', sentAt: new Date(), attempts: sql`${outbox.attempts} + 1`, lastError: null }).where(eq(outbox.id, row.id))
           sent++
         }
         catch (err) {
           const attempts = row.attempts + 1
+          logEvent('mail.failed', { outboxId: row.id, attempts, err: String((err as Error)?.message ?? err).slice(0, 300) }, 'warn')
           await db.update(outbox).set({
             attempts,
             lastError: String((err as Error)?.message ?? err).slice(0, 500),

@@ -19,4 +19,6 @@ export async function logAudit(tx: DbOrTx, entry: AuditEntry) {
     clientId: entry.clientId ?? null,
     data: entry.data ?? null,
   })
+  // The security log gets who did what to which record (not the details, which stay in the audit row).
+  logEvent('audit.action', { actorId: entry.actorId, action: entry.action, entityType: entry.entityType, entityId: entry.entityId ?? null, clientId: entry.clientId ?? null })
 }

@@ -6,9 +6,15 @@ import { clientHandlers, clients } from '../database/schema'
 // The one authorization module: every route asks here, never the page.
 export interface AuthUser { id: string, role: Role, name: string, email: string, timeZone: string }
 
+// What a staff member who must first set up a second factor may still reach: their account and signing out.
+const ENROLMENT_PATHS = /^\/api\/(account\/|auth\/)/
+
 export function requireUser(event: H3Event): AuthUser {
   const user = event.context.authUser as AuthUser | undefined
   if (!user) throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Please sign in to continue.' })
+  if (event.context.mustEnrolSecondFactor && !ENROLMENT_PATHS.test(event.path)) {
+    throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'The office requires a second factor for every staff account. Set it up on your account page first.', data: { secondFactorRequired: true } })
+  }
   return user
 }
 

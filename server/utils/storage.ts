@@ -2,10 +2,10 @@
 // Two backends: local disk under FILES_DIR (the default), and an S3-compatible bucket when S3_BUCKET is set (put ~
 // a streamed multipart upload, get with a range ~ GetObject with Range, stat ~ HeadObject, delete ~ DeleteObject),
 // so several app instances can share the files. tests/integration/storage.test.ts runs the same cases on both.
-import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, S3Client, type S3ClientConfig } from '@aws-sdk/client-s3'
+import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, S3Client, type S3ClientConfig } from '@aws-sdk/client-s3'
 import { Upload } from '@aws-sdk/lib-storage'
 import { createReadStream, createWriteStream } from 'node:fs'
-import { mkdir, open, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { mkdir, open, readdir, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { dirname, relative, resolve, sep, isAbsolute } from 'node:path'
 import { randomBytes } from 'node:crypto'
 import { Readable } from 'node:stream'
@@ -35,6 +35,13 @@ export interface FileStorage {
   /** Removes the object; removing a key that does not exist is not an error. */
   delete(key: string): Promise<void>
   exists(key: string): Promise<boolean>
+  /** Every object whose key starts with `prefix` (for the orphan sweep). */
+  list(prefix: string): AsyncIterable<FileStorageInfo>
+  /**
+   * Half-written temporary files a crash left behind (local disk only; an S3 upload that fails is aborted, and a
+   * bucket lifecycle rule removes incomplete multipart uploads). `remove` deletes one.
+   */
+  listTemporary(): AsyncIterable<{ name: string, modifiedAt: Date, remove: () => Promise<void> }>
 }
 
 /** A key that is not allowed (escapes the storage folder, empty segments, hidden names…): a programming error. */
@@ -116,7 +123,37 @@ export function createLocalFileStorage(root: string): FileStorage {
     async exists(key) {
       return (await info(key)) !== null
     },
+
+    async* list(prefix) {
+      for (const { path, name } of await walk(base)) {
+        if (name.startsWith('.')) continue
+        const key = relative(base, path).split(sep).join('/')
+        if (!key.startsWith(prefix)) continue
+        const s = await stat(path).catch(() => null)
+        if (s?.isFile()) yield { key, size: s.size, modifiedAt: s.mtime }
+      }
+    },
+
+    async* listTemporary() {
+      for (const { path, name } of await walk(base)) {
+        if (!/^\.[0-9a-f]+\.tmp$/.test(name)) continue
+        const s = await stat(path).catch(() => null)
+        if (s?.isFile()) yield { name: relative(base, path), modifiedAt: s.mtime, remove: () => rm(path, { force: true }) }
+      }
+    },
   }
+}
+
+/** Every file under `dir` (recursively), with its name. */
+async function walk(dir: string): Promise<Array<{ path: string, name: string }>> {
+  const entries = await readdir(dir, { withFileTypes: true }).catch(() => [])
+  const out: Array<{ path: string, name: string }> = []
+  for (const e of entries) {
+    const full = resolve(dir, e.name)
+    if (e.isDirectory()) out.push(...await walk(full))
+    else if (e.isFile()) out.push({ path: full, name: e.name })
+  }
+  return out
 }
 
 /** FILES_DIR (default ./data/files), resolved from the working folder the server was started in. */
@@ -228,6 +265,21 @@ export function createS3FileStorage(opts: S3FileStorageOptions): FileStorage {
 
     async exists(key) {
       return (await info(key)) !== null
+    },
+
+    async* list(prefix) {
+      let ContinuationToken: string | undefined
+      do {
+        const page = await client.send(new ListObjectsV2Command({ Bucket, Prefix: prefix, ContinuationToken }))
+        for (const o of page.Contents ?? []) {
+          if (o.Key) yield { key: o.Key, size: Number(o.Size ?? 0), modifiedAt: o.LastModified ?? new Date(0) }
+        }
+        ContinuationToken = page.IsTruncated ? page.NextContinuationToken : undefined
+      } while (ContinuationToken)
+    },
+
+    async* listTemporary() {
+      // Nothing: a failed multipart upload is aborted (see put); a lifecycle rule cleans any the process could not abort.
     },
   }
 }

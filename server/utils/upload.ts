@@ -17,39 +17,6 @@ function tooLarge(maxBytes: number): never {
   })
 }
 
-/** The request body, refused with 413 as soon as it grows past `limit` bytes (whether or not Content-Length says so). */
-async function readCappedBody(event: H3Event, limit: number, maxFileBytes: number): Promise<Uint8Array<ArrayBuffer>> {
-  const req = event.node.req
-  return new Promise<Uint8Array<ArrayBuffer>>((ok, fail) => {
-    const chunks: Buffer[] = []
-    let total = 0
-    let done = false
-    const finish = (err?: unknown) => {
-      if (done) return
-      done = true
-      req.off('data', onData)
-      if (err) {
-        // Drop the rest of the body: Node discards unread request data once the response is sent.
-        req.resume()
-        fail(err)
-      }
-      else ok(new Uint8Array(Buffer.concat(chunks)))
-    }
-    const onData = (chunk: Buffer) => {
-      total += chunk.length
-      if (total > limit) {
-        try { tooLarge(maxFileBytes) }
-        catch (err) { finish(err) }
-        return
-      }
-      chunks.push(chunk)
-    }
-    req.on('data', onData)
-    req.once('end', () => finish())
-    req.once('error', () => finish(createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'The upload was interrupted. Please try again.' })))
-  })
-}
-
 /**
  * Reads a multipart/form-data request whose one file field is `file`: 415 when it is not multipart, 413 when the
  * body is larger than the file limit plus the form's framing (checked from Content-Length before reading, and again
@@ -61,9 +28,7 @@ export async function readUploadForm(event: H3Event, maxFileBytes: number): Prom
     throw createError({ statusCode: 415, statusMessage: 'Unsupported Media Type', message: 'Send the file as multipart/form-data with the file in a field named "file".' })
   }
   const limit = maxFileBytes + MULTIPART_OVERHEAD_BYTES
-  const declared = Number(getRequestHeader(event, 'content-length'))
-  if (Number.isFinite(declared) && declared > limit) tooLarge(maxFileBytes)
-  const body = await readCappedBody(event, limit, maxFileBytes)
+  const body = new Uint8Array(await readBodyCapped(event, limit, () => tooLarge(maxFileBytes)))
   let form: FormData
   try {
     form = await new Response(body, { headers: { 'content-type': contentType } }).formData()

@@ -24,9 +24,11 @@ function invalid(error: ZodError, what: string): never {
 
 /** Reads a JSON body and validates it with the shared zod schema: 400 for broken JSON, 422 with field errors. */
 export async function readValidatedJson<S extends ZodTypeAny>(event: H3Event, schema: S): Promise<z.output<S>> {
+  // At most the route class's size (413 past it, never parsed), then parsed as strict JSON.
+  const raw = (await readBodyCapped(event, bodyLimitOf(event))).toString('utf8')
   let body: unknown
   try {
-    body = await readBody(event, { strict: true })
+    body = raw.trim() ? JSON.parse(raw) : undefined
   }
   catch {
     throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'The request body is not valid JSON. Send a JSON object.' })

@@ -41,3 +41,17 @@ export const userUpdateSchema = z.object({
   disabled: z.boolean().optional(),
   name: personName.optional(),
 }).refine(v => v.disabled !== undefined || v.name !== undefined, 'Nothing to change: send disabled or name.')
+
+// Second factor: a 6-digit code from the authenticator app, or one of the recovery codes.
+export const secondFactorCodeSchema = z.object({
+  code: z.string({ required_error: 'Enter the 6-digit code from your authenticator app.', invalid_type_error: 'Enter the 6-digit code from your authenticator app.' })
+    .trim().regex(/^\d{3}\s?\d{3}$/, 'Enter the 6 digits shown in your authenticator app.'),
+})
+export const secondFactorSignInSchema = z.union([
+  secondFactorCodeSchema,
+  z.object({ recoveryCode: z.string({ invalid_type_error: 'Enter one of your recovery codes.' }).trim().min(10, 'Enter one of your recovery codes, like abcde-fghjk.').max(20, 'A recovery code has 10 letters and digits.') }),
+], { errorMap: () => ({ message: 'Enter the 6-digit code from your authenticator app, or a recovery code.' }) })
+export const secondFactorOffSchema = z.object({
+  password: z.string({ required_error: 'Enter your password.' }).min(1, 'Enter your password.').max(200, 'Use at most 200 characters.'),
+})
+export type SecondFactorSignInInput = z.infer<typeof secondFactorSignInSchema>

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { CLIENT_STATUSES, CONDITIONS, HANDLER_RELATIONSHIPS } from '../utils/enums'
-import { email, isoDate, optionalText, personName } from './common'
+import { email, isoDate, numeric, optionalText, personName } from './common'
 
 export const CLIENT_SORTS = ['household', 'person', 'dog', 'condition', 'status', 'started', 'updated', 'trainer'] as const
 
@@ -11,8 +11,8 @@ export const clientListQuery = z.object({
   trainerId: z.string().max(64).optional(),
   sort: z.enum(CLIENT_SORTS, { errorMap: () => ({ message: `Sort by one of: ${CLIENT_SORTS.join(', ')}.` }) }).default('household'),
   dir: z.enum(['asc', 'desc'], { errorMap: () => ({ message: 'Direction is asc or desc.' }) }).default('asc'),
-  page: z.coerce.number().int('Page must be a whole number.').min(1, 'Pages start at 1.').max(100000).default(1),
-  pageSize: z.coerce.number().int().min(5, 'Show at least 5 rows.').max(200, 'Show at most 200 rows.').default(25),
+  page: numeric(z.number().int('Page must be a whole number.').min(1, 'Pages start at 1.').max(100000).default(1)),
+  pageSize: numeric(z.number().int().min(5, 'Show at least 5 rows.').max(200, 'Show at most 200 rows.').default(25)),
 })
 export type ClientListQuery = z.infer<typeof clientListQuery>
 
@@ -68,6 +68,6 @@ export const reassignSchema = z.object({
 })
 
 export const activityQuery = z.object({
-  before: z.coerce.number().int().positive().optional(),
-  limit: z.coerce.number().int().min(1).max(100).default(30),
+  before: numeric(z.number().int().positive().optional()),
+  limit: numeric(z.number().int().min(1).max(100).default(30)),
 })

@@ -1,7 +1,7 @@
 // The alert diary's forms: one schema each, used by the phone flow, the detail forms and the routes.
 import { z } from 'zod'
 import { ALERT_CONFIDENCES, DIARY_KINDS, EARLIEST_DIARY_TIME, EPISODE_SEVERITIES, MAX_WINDOW_MINUTES, windowProblems } from '../utils/diary'
-import { optionalText } from './common'
+import { optionalText, YEAR_RANGE_MESSAGE, yearInRange } from './common'
 
 const blankToNull = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? null : v)
 
@@ -21,6 +21,7 @@ const instantText = z.string({ required_error: 'Enter the date and time.', inval
     if (Number.isNaN(Date.parse(s))) return false
     return probe.getUTCFullYear() === y && probe.getUTCMonth() === mo - 1 && probe.getUTCDate() === d && h < 24 && mi < 60
   }, 'This date and time does not exist on the calendar.')
+  .refine(yearInRange, YEAR_RANGE_MESSAGE)
   .transform(s => new Date(s))
   .refine(d => d.getTime() >= EARLIEST_DIARY_TIME, 'Diary times start in the year 2000. Check the year.')
 

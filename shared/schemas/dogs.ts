@@ -5,7 +5,7 @@ import {
   ASSESSMENT_OUTCOMES, HEALTH_RECORD_KINDS, SUITABILITY_TRAITS, TRAIT_SCORE_MAX, TRAIT_SCORE_MIN,
   assessmentSummary, isCalendarDay, type TraitKey,
 } from '../utils/dogs'
-import { optionalText } from './common'
+import { optionalText, YEAR_RANGE_MESSAGE, yearInRange } from './common'
 
 /**
  * ISO 11784 / ISO 11785 (FDX-B) animal transponders carry a 15-digit code: a 3-digit country or manufacturer code
@@ -24,6 +24,7 @@ const blankToNull = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? 
 const calendarDay = (message: string) => z.string({ required_error: message, invalid_type_error: message }).trim()
   .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-03-31.')
   .refine(isCalendarDay, 'This date does not exist on the calendar.')
+  .refine(yearInRange, YEAR_RANGE_MESSAGE)
 const optionalDay = z.preprocess(blankToNull, calendarDay('Use a date like 2026-03-31.').nullable().optional())
 
 const optionalEnum = <T extends readonly [string, ...string[]]>(values: T, message: string) =>

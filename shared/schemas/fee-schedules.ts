@@ -1,7 +1,7 @@
 // Fee schedules per programme template, and the invoices created from one, as the routes accept them (minor units)
 // and as the admin's forms type them (amounts in the currency, tax as a percent), one set of rules for both.
 import { z } from 'zod'
-import { isoDate } from './common'
+import { isoDate, numeric } from './common'
 import { invoiceLineSchema } from './invoices'
 import { minorUnits, parseMoney, parsePercent } from '../utils/money'
 import { feeScheduleTotal } from '../utils/fee-plan'
@@ -47,8 +47,8 @@ function check(parse: () => unknown, ctx: z.RefinementCtx, path: (string | numbe
   try { parse() }
   catch (e) { ctx.addIssue({ code: 'custom', path, message: (e as Error).message }) }
 }
-const wholeText = (what: string, min: number, max: number) => z.coerce.number({ invalid_type_error: `Enter the ${what}.` })
-  .int(`Use a whole number for the ${what}.`).min(min, `Use at least ${min}.`).max(max, `Use at most ${max}.`)
+const wholeText = (what: string, min: number, max: number) => numeric(z.number({ invalid_type_error: `Enter the ${what}.` })
+  .int(`Use a whole number for the ${what}.`).min(min, `Use at least ${min}.`).max(max, `Use at most ${max}.`))
 
 // Checks run in superRefine (zod runs it even when another field is wrong, so every mistake shows at once);
 // the conversion runs in transform, once everything is valid.
@@ -99,7 +99,7 @@ export function invoiceDraftFormSchema(currency: string) {
     lines: z.array(z.object({
       description: invoiceLineSchema.shape.description,
       unit: moneyText,
-      quantity: z.coerce.number({ invalid_type_error: 'The quantity must be a number.' }).pipe(invoiceLineSchema.shape.quantity),
+      quantity: numeric(z.number({ invalid_type_error: 'The quantity must be a number.' }).pipe(invoiceLineSchema.shape.quantity)),
       taxPercent: percentText,
     })).min(1, 'Add at least one line.').max(50, 'Use at most 50 lines.'),
   }).transform(v => ({

@@ -2,14 +2,14 @@
 // (the forms and the routes share these).
 import { z } from 'zod'
 import { MAX_EXPECTED_VIDEOS, REVIEW_OUTCOMES } from '../utils/homework'
-import { id, isoDate, optionalText } from './common'
+import { id, isoDate, numeric, optionalText } from './common'
 
 const title = z.string({ required_error: 'Give the homework a title.', invalid_type_error: 'Give the homework a title.' }).trim()
   .min(1, 'Give the homework a title.').max(120, 'Use at most 120 characters.')
 const instructions = z.string({ required_error: 'Write what the handler should do.', invalid_type_error: 'Write what the handler should do.' }).trim()
   .min(1, 'Write what the handler should do.').max(4000, 'Use at most 4000 characters.')
-const expectedVideos = z.coerce.number({ invalid_type_error: 'Enter how many videos you expect.' })
-  .int('Use a whole number of videos.').min(1, 'Expect at least 1 video.').max(MAX_EXPECTED_VIDEOS, `Expect at most ${MAX_EXPECTED_VIDEOS} videos.`)
+const expectedVideos = numeric(z.number({ invalid_type_error: 'Enter how many videos you expect.' })
+  .int('Use a whole number of videos.').min(1, 'Expect at least 1 video.').max(MAX_EXPECTED_VIDEOS, `Expect at most ${MAX_EXPECTED_VIDEOS} videos.`))
 /** An empty form field counts as not given. */
 const blank = <T extends z.ZodTypeAny>(schema: T) => z.preprocess(v => (v === '' || v === null ? undefined : v), schema.optional())
 const optionalId = z.union([id, z.literal('')]).optional().nullable().transform(v => (v ? v : null))
@@ -72,7 +72,7 @@ export const queueQuerySchema = z.object({
   clientId: id.optional(),
   state: z.enum(['awaiting', 'overdue', 'reviewed', 'all']).default('awaiting'),
   outcome: z.enum(REVIEW_OUTCOMES).optional(),
-  page: z.coerce.number().int().min(1).max(10_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  page: numeric(z.number().int().min(1).max(10_000).default(1)),
+  pageSize: numeric(z.number().int().min(1).max(100).default(25)),
 })
 export type QueueQuery = z.infer<typeof queueQuerySchema>

@@ -2,11 +2,13 @@
 // with an offset (what `new Date().toISOString()` gives) and come out as Dates; the protocol rules themselves are in
 // shared/utils/samples.ts, checked on the server against the business's policy.
 import { z } from 'zod'
+import { yearInRange, YEAR_RANGE_MESSAGE } from './common'
 import { EXPOSURES, SAMPLE_KINDS } from '../utils/samples'
 import { TRAINING_STAGES } from '../utils/enums'
 
 const instant = (what: string) => z.string({ required_error: `Enter ${what}.`, invalid_type_error: `Enter ${what}.` })
   .datetime({ offset: true, message: `Enter ${what} as a date and time.` })
+  .refine(yearInRange, YEAR_RANGE_MESSAGE)
   .transform(s => new Date(s))
 const optionalInstant = (what: string) => instant(what).nullable().optional()
 const reason = (what: string) => z.string({ required_error: `Enter ${what}.` }).trim().min(3, `Enter ${what} (at least 3 characters).`).max(500, 'Use at most 500 characters.')

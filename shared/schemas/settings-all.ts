@@ -6,7 +6,8 @@ import { diaryPolicy } from './settings-diary'
 import { invoicePolicy, reminderPolicy } from './settings-invoices'
 import { trainingPolicy } from './settings-training'
 import { homeworkUploadPolicy } from './settings-homework'
+import { securityPolicy } from './settings-security'
 
-const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy, invoicePolicy, reminderPolicy, trainingPolicy, homeworkUploadPolicy]
+const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy, invoicePolicy, reminderPolicy, trainingPolicy, homeworkUploadPolicy, securityPolicy]
 
 export const SETTINGS: Record<string, SettingDefinition<any>> = Object.fromEntries(ALL.map(d => [d.key, d]))

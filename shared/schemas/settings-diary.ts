@@ -1,24 +1,25 @@
 // The alert diary's policy: the warning window per condition (a trainer may set a client's own), the period the
 // summaries cover, and when the trainer is e-mailed to plan a refresher.
 import { z } from 'zod'
+import { numeric } from './common'
 import { DEFAULT_ALERT_WINDOWS, DEFAULT_MIN_LEAD_MINUTES } from '../utils/alerts'
 import { MAX_WINDOW_MINUTES, windowProblems } from '../utils/diary'
 import { defineSetting } from './settings'
 
-const minutes = z.coerce.number({ invalid_type_error: 'Enter a number of minutes.' }).int('Use whole minutes.')
+const minutes = z.number({ invalid_type_error: 'Enter a number of minutes.' }).int('Use whole minutes.')
 const windowSchema = z.object({
-  minMinutes: minutes.min(0, 'Use 0 or more minutes.'),
-  maxMinutes: minutes.min(1, 'Use at least 1 minute.').max(MAX_WINDOW_MINUTES, `Use at most ${MAX_WINDOW_MINUTES} minutes (a day).`),
+  minMinutes: numeric(minutes.min(0, 'Use 0 or more minutes.')),
+  maxMinutes: numeric(minutes.min(1, 'Use at least 1 minute.').max(MAX_WINDOW_MINUTES, `Use at most ${MAX_WINDOW_MINUTES} minutes (a day).`)),
 }).superRefine((w, ctx) => {
   for (const [path, message] of Object.entries(windowProblems(w))) ctx.addIssue({ code: 'custom', path: [path], message })
 })
 
 export const diaryPolicySchema = z.object({
-  summaryDays: z.coerce.number().int('Use whole days.').min(7, 'Use at least 7 days.').max(730, 'Use at most 730 days.'),
-  recentDays: z.coerce.number().int('Use whole days.').min(7, 'Use at least 7 days.').max(365, 'Use at most 365 days.'),
-  minRecentEpisodes: z.coerce.number().int('Use a whole number.').min(1, 'Use at least 1.').max(100, 'Use at most 100.'),
-  refresherBelowPercent: z.coerce.number().min(1, 'Use 1 to 100 percent.').max(100, 'Use 1 to 100 percent.'),
-  minLeadMinutes: z.coerce.number({ invalid_type_error: 'Enter a number of minutes.' }).int('Use whole minutes.').min(0, 'Use 0 or more minutes.').max(60, 'Use at most 60 minutes.'),
+  summaryDays: numeric(z.number().int('Use whole days.').min(7, 'Use at least 7 days.').max(730, 'Use at most 730 days.')),
+  recentDays: numeric(z.number().int('Use whole days.').min(7, 'Use at least 7 days.').max(365, 'Use at most 365 days.')),
+  minRecentEpisodes: numeric(z.number().int('Use a whole number.').min(1, 'Use at least 1.').max(100, 'Use at most 100.')),
+  refresherBelowPercent: numeric(z.number().min(1, 'Use 1 to 100 percent.').max(100, 'Use 1 to 100 percent.')),
+  minLeadMinutes: numeric(z.number({ invalid_type_error: 'Enter a number of minutes.' }).int('Use whole minutes.').min(0, 'Use 0 or more minutes.').max(60, 'Use at most 60 minutes.')),
   migraine: windowSchema,
   hypoglycaemia: windowSchema,
   seizure: windowSchema,

@@ -1,14 +1,15 @@
 // The homework upload policy: the largest video a handler may send, and how long an interrupted upload is kept
 // for resuming before it is removed.
 import { z } from 'zod'
+import { numeric } from './common'
 import { defineSetting } from './settings'
 import { DEFAULT_MAX_UPLOAD_MEGABYTES, DEFAULT_STALE_UPLOAD_HOURS } from '../utils/homework-video'
 
 export const homeworkUploadPolicySchema = z.object({
-  maxUploadMegabytes: z.coerce.number({ invalid_type_error: 'Enter the size in megabytes as a number.' })
-    .int('Use whole megabytes.').min(1, 'Use at least 1 MB.').max(20 * 1024, 'Use at most 20480 MB (20 GB).'),
-  staleUploadHours: z.coerce.number({ invalid_type_error: 'Enter the hours as a number.' })
-    .int('Use whole hours.').min(1, 'Use at least 1 hour.').max(24 * 14, 'Use at most 336 hours (two weeks).'),
+  maxUploadMegabytes: numeric(z.number({ invalid_type_error: 'Enter the size in megabytes as a number.' })
+    .int('Use whole megabytes.').min(1, 'Use at least 1 MB.').max(20 * 1024, 'Use at most 20480 MB (20 GB).')),
+  staleUploadHours: numeric(z.number({ invalid_type_error: 'Enter the hours as a number.' })
+    .int('Use whole hours.').min(1, 'Use at least 1 hour.').max(24 * 14, 'Use at most 336 hours (two weeks).')),
 })
 export type HomeworkUploadPolicy = z.infer<typeof homeworkUploadPolicySchema>
 

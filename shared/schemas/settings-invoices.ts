@@ -1,10 +1,11 @@
 // The invoicing policy: what every invoice carries besides the business profile (name, locale, currency).
 import { z } from 'zod'
+import { numeric } from './common'
 import { defineSetting } from './settings'
 
 export const invoicePolicySchema = z.object({
   taxNumber: z.string().trim().max(40, 'Use at most 40 characters.').default(''),
-  paymentTermsDays: z.coerce.number().int('Use whole days.').min(0, 'Use 0 or more days.').max(365, 'Use at most 365 days.'),
+  paymentTermsDays: numeric(z.number().int('Use whole days.').min(0, 'Use 0 or more days.').max(365, 'Use at most 365 days.')),
   footer: z.string().trim().max(300, 'Use at most 300 characters.').default(''),
 })
 export type InvoicePolicy = z.infer<typeof invoicePolicySchema>
@@ -27,9 +28,9 @@ export const invoicePolicy = defineSetting(INVOICE_POLICY_KEY, {
 // Overdue reminders: one e-mail per open invoice per interval once it is overdue, at most a few times.
 export const reminderPolicySchema = z.object({
   enabled: z.boolean({ invalid_type_error: "Choose yes or no." }),
-  firstAfterDaysOverdue: z.coerce.number().int('Use whole days.').min(1, 'Use at least 1 day.').max(365, 'Use at most 365 days.'),
-  intervalDays: z.coerce.number().int('Use whole days.').min(1, 'Use at least 1 day.').max(365, 'Use at most 365 days.'),
-  maxReminders: z.coerce.number().int('Use a whole number.').min(1, 'Use at least 1.').max(20, 'Use at most 20.'),
+  firstAfterDaysOverdue: numeric(z.number().int('Use whole days.').min(1, 'Use at least 1 day.').max(365, 'Use at most 365 days.')),
+  intervalDays: numeric(z.number().int('Use whole days.').min(1, 'Use at least 1 day.').max(365, 'Use at most 365 days.')),
+  maxReminders: numeric(z.number().int('Use a whole number.').min(1, 'Use at least 1.').max(20, 'Use at most 20.')),
 })
 export type ReminderPolicySetting = z.infer<typeof reminderPolicySchema>
 

@@ -1,9 +1,10 @@
 import { z } from 'zod'
+import { numeric } from './common'
 import { defineSetting } from './settings'
 import { DEFAULT_SAMPLE_POLICY, type SamplePolicy } from '../utils/samples'
 
-const whole = (min: number, max: number, what: string) => z.coerce.number({ invalid_type_error: `Enter ${what} as a number.` })
-  .int(`Enter ${what} as a whole number.`).min(min, `Use at least ${min}.`).max(max, `Use at most ${max}.`)
+const whole = (min: number, max: number, what: string) => numeric(z.number({ invalid_type_error: `Enter ${what} as a number.` })
+  .int(`Enter ${what} as a whole number.`).min(min, `Use at least ${min}.`).max(max, `Use at most ${max}.`))
 
 /** The sample-bank policy; its defaults (DEFAULT_SAMPLE_POLICY) are common practice, each marked where defined. */
 export const samplePolicySchema: z.ZodType<SamplePolicy> = z.object({

@@ -2,14 +2,14 @@
 import { z } from 'zod'
 import { TRAINING_STAGES } from '../utils/enums'
 import { SESSION_RUNNERS } from '../utils/training'
-import { id, isoDate, optionalText } from './common'
+import { id, isoDate, numeric, optionalText } from './common'
 
 export const MAX_STATIONS = 12 // our own limit: a line-up on a training ground rarely has more than 6–8 stations
 
-const whole = (what: string, min: number, max: number) => z.coerce.number({ invalid_type_error: `Enter ${what}.` })
-  .int(`Use a whole number for ${what}.`).min(min, `Use at least ${min} for ${what}.`).max(max, `Use at most ${max} for ${what}.`)
-const percent = (what: string) => z.coerce.number({ invalid_type_error: `Enter ${what} in percent.` })
-  .min(0, `Use 0 to 100 percent for ${what}.`).max(100, `Use 0 to 100 percent for ${what}.`)
+const whole = (what: string, min: number, max: number) => numeric(z.number({ invalid_type_error: `Enter ${what}.` })
+  .int(`Use a whole number for ${what}.`).min(min, `Use at least ${min} for ${what}.`).max(max, `Use at most ${max} for ${what}.`))
+const percent = (what: string) => numeric(z.number({ invalid_type_error: `Enter ${what} in percent.` })
+  .min(0, `Use 0 to 100 percent for ${what}.`).max(100, `Use 0 to 100 percent for ${what}.`))
 
 export const criteriaSchema = z.object({
   windowDays: whole('the window (days)', 7, 365),
@@ -109,7 +109,7 @@ export const sessionListQuery = z.object({
   blind: z.enum(['yes', 'no'], { errorMap: () => ({ message: 'Blind is yes or no.' }) }).optional(),
   from: isoDate.optional(),
   to: isoDate.optional(),
-  page: z.coerce.number().int('Page must be a whole number.').min(1, 'Pages start at 1.').max(100000).default(1),
-  pageSize: z.coerce.number().int('Use a whole number of rows.').min(5, 'Show at least 5 rows.').max(100, 'Show at most 100 rows.').default(25),
+  page: numeric(z.number().int('Page must be a whole number.').min(1, 'Pages start at 1.').max(100000).default(1)),
+  pageSize: numeric(z.number().int('Use a whole number of rows.').min(5, 'Show at least 5 rows.').max(100, 'Show at most 100 rows.').default(25)),
 }).refine(v => !v.from || !v.to || v.from <= v.to, { path: ['to'], message: 'The end date must be on or after the start date.' })
 export type SessionListQuery = z.infer<typeof sessionListQuery>

@@ -1,5 +1,6 @@
 // A walk through each role's main pages at phone and desktop widths: every page renders its heading without
-// browser errors. With E2E_SCREENSHOTS=<folder> it also leaves a screenshot of each page to look at.
+// browser errors and without a single Content-Security-Policy violation (each one is collected from the page's
+// securitypolicyviolation events). With E2E_SCREENSHOTS=<folder> it also leaves a screenshot of each page to look at.
 import { expect, test } from '@playwright/test'
 import { ADMIN, CLIENT_A, HANDLER_A, TRAINER_A } from '../support/people'
 import { DESKTOP, PHONE, shot, signInAs } from './helpers'
@@ -60,13 +61,24 @@ for (const viewport of [{ name: 'phone', size: PHONE }, { name: 'desktop', size:
       page.on('response', (r) => {
         if (r.status() >= 400 && !(r.status() === 404 && /\/api\/dogs\/[^/]+\/photo/.test(r.url()))) problems.push(`${r.status()} ${r.url()}`)
       })
+      // Every CSP violation on any page of the walk (the sign-in page included) is a problem.
+      await page.addInitScript(() => {
+        const w = window as unknown as { __cspViolations: string[] }
+        w.__cspViolations = []
+        document.addEventListener('securitypolicyviolation', e => w.__cspViolations.push(`${e.violatedDirective} blocked ${e.blockedURI || '(inline)'} at ${e.sourceFile}:${e.lineNumber}`))
+      })
+      const cspViolations = async () => page.evaluate(() => (window as unknown as { __cspViolations?: string[] }).__cspViolations ?? [])
+      let cspHeader = ''
+      page.on('response', (r) => { if (r.request().resourceType() === 'document') cspHeader ||= r.headers()['content-security-policy'] ?? '' })
       await page.setViewportSize(viewport.size)
       await signInAs(page, role.email)
+      problems.push(...(await cspViolations()).map(v => `(sign-in): CSP ${v}`))
       for (const p of role.pages) {
         current = p.path
         await page.goto(p.path)
         await expect(page.getByRole('heading', { level: 1 })).toContainText(p.heading)
         await page.waitForLoadState('networkidle')
+        problems.push(...(await cspViolations()).map(v => `${p.path}: CSP ${v}`))
         // Nothing wider than the screen on a phone.
         if (viewport.name === 'phone') {
           const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)
@@ -76,6 +88,8 @@ for (const viewport of [{ name: 'phone', size: PHONE }, { name: 'desktop', size:
         await shot(page, `tour-${role.who}-${name}-${viewport.name}`)
       }
       expect(problems).toEqual([])
+      // The walk ran under the real policy (nonce-based scripts), not without one.
+      expect(cspHeader).toMatch(/script-src 'self' 'strict-dynamic' 'nonce-/)
     })
   }
 }

@@ -200,7 +200,7 @@ describe('refused uploads leave nothing behind', () => {
       },
     })
     const res = await fetch(`${baseUrl}/api/clients/${CLIENT_A}/documents`, {
-      method: 'POST', body, duplex: 'half', headers: { cookie: trainer.cookie, 'content-type': `multipart/form-data; boundary=${boundary}` },
+      method: 'POST', body, duplex: 'half', headers: { 'cookie': trainer.cookie, 'origin': baseUrl, 'content-type': `multipart/form-data; boundary=${boundary}` },
     } as RequestInit)
     expect(res.status).toBe(413)
     await res.arrayBuffer()

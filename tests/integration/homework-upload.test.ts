@@ -34,7 +34,7 @@ async function createAssignment(db: Client, clientId: string, state: 'open' | 'd
 
 const b64 = (s: string) => Buffer.from(s, 'utf8').toString('base64')
 function tusHeaders(agent: Agent, extra: Record<string, string> = {}): Record<string, string> {
-  return { 'Tus-Resumable': '1.0.0', ...(agent.cookie ? { cookie: agent.cookie } : {}), ...extra }
+  return { 'Tus-Resumable': '1.0.0', 'origin': agent.baseUrl, ...(agent.cookie ? { cookie: agent.cookie } : {}), ...extra }
 }
 async function json(res: Response): Promise<any> {
   const text = await res.text()
@@ -102,7 +102,7 @@ function tusUpload(env: Env, agent: Agent, data: Buffer, opts: { assignmentId: s
       uploadUrl: opts.uploadUrl ?? null,
       chunkSize: opts.chunkSize,
       retryDelays: [],
-      headers: { cookie: agent.cookie },
+      headers: { cookie: agent.cookie, origin: agent.baseUrl },
       metadata: { assignmentId: opts.assignmentId, filename: opts.filename, filetype: 'video/mp4' },
       onChunkComplete: (_chunk, accepted) => {
         if (opts.abortAfterBytes !== undefined && accepted >= opts.abortAfterBytes && !aborted) {
@@ -387,7 +387,7 @@ describe('homework upload: bad input', () => {
     expect((await createUpload(env, handler, { assignmentId, filename: 'x.mp4', length: 0 })).res.status).toBe(400)
     expect((await createUpload(env, handler, { metadata: 'assignmentId !!!not-base64' })).res.status).toBe(400)
     expect((await createUpload(env, new Agent(env.baseUrl), { assignmentId, filename: 'x.mp4' })).res.status).toBe(401)
-    const noTus = await fetch(`${env.baseUrl}/api/homework-uploads`, { method: 'POST', headers: { cookie: handler.cookie, 'Upload-Length': '10' } })
+    const noTus = await fetch(`${env.baseUrl}/api/homework-uploads`, { method: 'POST', headers: { 'cookie': handler.cookie, 'origin': env.baseUrl, 'Upload-Length': '10' } })
     expect(noTus.status).toBe(412)
     // From another website: refused by the origin check before anything else.
     const cross = await fetch(`${env.baseUrl}/api/homework-uploads`, { method: 'POST', headers: tusHeaders(handler, { 'Upload-Length': '10', origin: 'https://elsewhere.example', 'Upload-Metadata': `assignmentId ${b64(assignmentId)},filename ${b64('x.mp4')}` }) })

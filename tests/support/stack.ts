@@ -1,7 +1,7 @@
 // Starts what the tests run against: a fresh SQLite file with the demo scenario, the fake SMTP service and the
 // built server (.output) as a real HTTP server on a free port.
 import { spawn, type ChildProcess } from 'node:child_process'
-import { mkdirSync, existsSync, rmSync } from 'node:fs'
+import { createWriteStream, mkdirSync, existsSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { resolve } from 'node:path'
 import { randomBytes } from 'node:crypto'
@@ -60,10 +60,12 @@ export interface Stack {
   smtp: FakeSmtp | null
   /** The fake S3 when started with `storage: 's3'` (its setDown() switches storage off for a test). */
   s3: FakeS3 | null
+  /** The secrets the server was started with (session password, Stripe keys): none may ever appear in its log. */
+  secrets: string[]
   stop: () => Promise<void>
 }
 
-export async function startStack(opts: { label?: string, env?: Record<string, string>, startSmtp?: boolean, storage?: 'local' | 's3' } = {}): Promise<Stack> {
+export async function startStack(opts: { label?: string, env?: Record<string, string>, startSmtp?: boolean, storage?: 'local' | 's3', logFile?: string } = {}): Promise<Stack> {
   const entry = resolve(ROOT, process.env.NUXT_OUTPUT_DIR || '.output', 'server/index.mjs')
   if (!existsSync(entry)) throw new Error('No built server in .output: run `npm run build` (the test command does it for you).')
   const databaseUrl = tempDatabaseUrl(opts.label ?? 'stack')
@@ -89,6 +91,8 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       UPLOAD_STAGING_DIR: stagingDirFor(databaseUrl),
       // The cleanup of expired homework uploads looks every second.
       UPLOAD_CLEANUP_INTERVAL_MS: '1000',
+      // The orphan-file sweep looks every second (it removes only files older than an hour).
+      FILE_SWEEP_INTERVAL_MS: '1000',
       ...(s3?.env ?? {}),
       NUXT_SESSION_PASSWORD: TEST_SESSION_PASSWORD,
       SMTP_HOST: '127.0.0.1',
@@ -109,8 +113,10 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
     stdio: ['ignore', 'pipe', 'pipe'],
   })
   let output = ''
-  child.stdout?.on('data', (d) => { output += d })
-  child.stderr?.on('data', (d) => { output += d })
+  // With logFile, everything the server prints (its JSON log lines) is kept there too, for the tests to read.
+  const log = opts.logFile ? createWriteStream(opts.logFile, { flags: 'a' }) : null
+  child.stdout?.on('data', (d) => { output += d; log?.write(d) })
+  child.stderr?.on('data', (d) => { output += d; log?.write(d) })
   const deadline = Date.now() + 30_000
   for (;;) {
     if (child.exitCode !== null) throw new Error(`The server exited during start-up:\n${output}`)
@@ -129,9 +135,11 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
     smtpPort,
     smtp,
     s3,
+    secrets: [TEST_SESSION_PASSWORD, stripeWebhookSecret, 'sk_test_fake'],
     async stop() {
       child.kill('SIGTERM')
       await new Promise(r => (child.exitCode !== null ? r(null) : child.once('exit', r)))
+      await new Promise(r => (log ? log.end(r) : r(null)))
       await smtp?.close()
       await stripe.close()
       await s3?.close()

@@ -1,3 +1,4 @@
 export default defineEventHandler((event) => {
-  return { user: requireUser(event) }
+  // Staff who must first set up a second factor are told so (the pages send them to their account page).
+  return { user: requireUser(event), mustEnrolSecondFactor: !!event.context.mustEnrolSecondFactor }
 })

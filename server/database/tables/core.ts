@@ -22,6 +22,13 @@ export const users = sqliteTable('users', {
   // Raised on sign-out, password change and disabling: every older sealed cookie stops working.
   sessionVersion: integer('session_version').notNull().default(0),
   lastSignInAt: integer('last_sign_in_at', { mode: 'timestamp_ms' }),
+  // Second factor (TOTP, RFC 6238): the secret sealed with the server's key (never in clear), set once confirmed;
+  // a secret being enrolled waits in totpPendingSecret until the person proves it with a code.
+  totpSecret: text('totp_secret'),
+  totpPendingSecret: text('totp_pending_secret'),
+  totpEnabledAt: integer('totp_enabled_at', { mode: 'timestamp_ms' }),
+  // The last time step accepted, so one code is never accepted twice (RFC 6238 section 5.2).
+  totpLastStep: integer('totp_last_step'),
   ...timestamps,
 }, t => [uniqueIndex('users_email_unique').on(t.email)])
 
@@ -99,6 +106,8 @@ export const passwordResets = sqliteTable('password_resets', {
   tokenHash: text('token_hash').notNull(),
   expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
   usedAt: integer('used_at', { mode: 'timestamp_ms' }),
+  // Set when a newer reset link is asked for: only the latest link works.
+  revokedAt: integer('revoked_at', { mode: 'timestamp_ms' }),
   createdAt: timestamps.createdAt,
 }, t => [uniqueIndex('password_resets_token_unique').on(t.tokenHash)])
 
@@ -123,6 +132,9 @@ export const outbox = sqliteTable('outbox', {
   dedupeKey: text('dedupe_key'),
   // Attachments by reference ([{ kind: 'invoice-pdf', id }]), rendered when the message is sent (server/services/outbox.ts).
   attachments: text('attachments', { mode: 'json' }).$type<Array<{ kind: 'invoice-pdf', id: string }>>(),
+  // A single-use link by reference ({ kind: 'password-reset' | 'invitation', id }): its token is minted when the
+  // message is sent and only its hash is stored, so the outbox never holds a usable link.
+  secretLink: text('secret_link', { mode: 'json' }).$type<{ kind: 'password-reset' | 'invitation', id: string }>(),
   status: text('status', { enum: ['pending', 'sent', 'failed'] }).notNull().default('pending'),
   attempts: integer('attempts').notNull().default(0),
   nextAttemptAt: integer('next_attempt_at', { mode: 'timestamp_ms' }).notNull().default(now),
