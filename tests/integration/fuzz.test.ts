@@ -56,12 +56,17 @@ function bodies(valid: unknown): fc.Arbitrary<Body> {
 }
 
 let stack: Stack
-let db: Client
 const agents = new Map<Actor, Agent>()
 const figures = { cases: 0, refused: 0, accepted: 0, routes: 0, byStatus: {} as Record<number, number> }
 
 /** A hash of every row of every table, by table. */
 async function databaseHash(): Promise<Record<string, string>> {
+  // A fresh connection each time: it reads the latest committed state, never an older snapshot.
+  const db = createClient({ url: stack.databaseUrl })
+  try { return await hashWith(db) }
+  finally { db.close() }
+}
+async function hashWith(db: Client): Promise<Record<string, string>> {
   const tables = (await db.execute('SELECT name FROM sqlite_master WHERE type = \'table\' AND name NOT LIKE \'sqlite_%\' AND name NOT LIKE \'__drizzle%\' ORDER BY name')).rows.map(r => String(r.name))
   const out: Record<string, string> = {}
   for (const t of tables) out[t] = createHash('sha256').update(JSON.stringify((await db.execute(`SELECT * FROM "${t}" ORDER BY rowid`)).rows)).digest('hex')
@@ -83,7 +88,6 @@ const changedTables = (a: Record<string, string>, b: Record<string, string>) => 
 beforeAll(async () => {
   // A stack of its own with the periodic jobs off, so only the requests themselves change the database.
   stack = await startStack({ label: 'fuzz', env: { OUTBOX_WORKER: 'off', SAMPLE_CHECK: 'off', UPLOAD_CLEANUP: 'off', FILE_SWEEP: 'off', INVOICE_SCHEDULE: 'off' } })
-  db = createClient({ url: stack.databaseUrl })
   for (const actor of Object.keys(ACTORS) as Actor[]) {
     const email = ACTORS[actor]
     agents.set(actor, email ? await signIn(stack.baseUrl, email) : new Agent(stack.baseUrl))
@@ -91,7 +95,6 @@ beforeAll(async () => {
 }, 120_000)
 
 afterAll(async () => {
-  db?.close()
   await stack?.stop()
   console.log(`Fuzzing: ${figures.cases} requests over ${figures.routes} route/method pairs and ${agents.size} kinds of caller; ${figures.refused} refused (database unchanged each time), ${figures.accepted} accepted; by status ${JSON.stringify(figures.byStatus)}.`)
 })

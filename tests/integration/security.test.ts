@@ -57,18 +57,9 @@ function rawRequest(opts: { method: string, path: string, headers?: Record<strin
     req.on('error', (err) => { if (!answered) setTimeout(() => { if (!answered) fail(err) }, 1000) })
     if (opts.body !== undefined) {
       if (opts.chunked) {
-        // No Content-Length: the body arrives in pieces until the server stops it.
-        const piece = Buffer.alloc(64 * 1024, 0x20)
-        let sent = 0
-        const pump = () => {
-          while (sent < 20 * 1024 * 1024) {
-            sent += piece.length
-            if (!req.write(piece)) { req.once('drain', pump); return }
-          }
-          req.end()
-        }
-        req.write('{"email":"')
-        pump()
+        // No Content-Length: the body (512 KiB, far past the limit) arrives chunked, so only reading can stop it.
+        req.setHeader('transfer-encoding', 'chunked')
+        req.end(Buffer.concat([Buffer.from('{"email":"'), Buffer.alloc(512 * 1024, 0x61)]))
         return
       }
       req.end(opts.body)
