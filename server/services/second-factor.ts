@@ -97,3 +97,22 @@ export async function verifySecondFactor(userId: string, input: { code: string }
     .returning({ id: users.id })
   return taken.length === 1
 }
+
+/**
+ * The office clears someone's second factor (a lost phone and lost recovery codes): their sessions end, and they
+ * sign in with the password and set it up again (at once, when the office requires it). Never one's own.
+ */
+export async function resetSecondFactorOf(admin: AuthUser, userId: string) {
+  if (userId === admin.id) {
+    throw createError({ statusCode: 422, statusMessage: 'Unprocessable Content', message: 'You cannot reset your own second factor here. Use your account page, or ask another admin.' })
+  }
+  return useDb().transaction(async (tx) => {
+    const [row] = await tx.update(users).set({ totpSecret: null, totpPendingSecret: null, totpEnabledAt: null, totpLastStep: null })
+      .where(eq(users.id, userId)).returning({ id: users.id, email: users.email })
+    if (!row) notFound('account')
+    await tx.delete(recoveryCodes).where(eq(recoveryCodes.userId, userId))
+    await endAllSessions(tx, userId)
+    await logAudit(tx, { actorId: admin.id, action: 'second-factor.reset', entityType: 'user', entityId: userId })
+    return { id: row.id, secondFactor: false }
+  })
+}

@@ -5,7 +5,7 @@ import { afterAll, beforeEach, describe, expect, inject, it } from 'vitest'
 import { DEMO_PASSWORD } from '../../scripts/lib/seed-data'
 import { totpCode } from '../../shared/utils/second-factor'
 import { Agent, noteSecret, signIn } from '../support/http'
-import { ADMIN, CLIENT_A, HANDLER_A, TRAINER_A, TRAINER_B } from '../support/people'
+import { ADMIN, CLIENT_A, HANDLER_A, TRAINER_A, TRAINER_A_ID, TRAINER_B } from '../support/people'
 import { sqlRows } from '../support/db'
 import { resetDatabase } from '../support/stack'
 
@@ -111,5 +111,21 @@ describe('the office requires a second factor for all staff', () => {
     expect(off.status).toBe(200)
     expect(off.body.enabled).toBe(false)
     expect((await new Agent(baseUrl).post('/api/auth/login', { email: TRAINER_A, password: DEMO_PASSWORD })).body.user).toMatchObject({ email: TRAINER_A })
+  })
+})
+
+describe('the office resets a lost second factor', () => {
+  it('clears it and ends the person\'s sessions; the password alone then signs in; only the admin may, never on themselves', async () => {
+    const trainer = await signIn(baseUrl, TRAINER_A)
+    await enrol(trainer)
+    expect((await trainer.post(`/api/users/${TRAINER_A_ID}/second-factor-reset`)).status).toBe(403)
+    const admin = await signIn(baseUrl, ADMIN)
+    const reset = await admin.post(`/api/users/${TRAINER_A_ID}/second-factor-reset`)
+    expect(reset.status, JSON.stringify(reset.body)).toBe(200)
+    expect((await trainer.get('/api/auth/me')).status).toBe(401)
+    expect((await new Agent(baseUrl).post('/api/auth/login', { email: TRAINER_A, password: DEMO_PASSWORD })).body.user).toMatchObject({ email: TRAINER_A })
+    expect(Number((await sql<{ n: number }>('SELECT count(*) n FROM recovery_codes WHERE user_id = ?', [TRAINER_A_ID]))[0]!.n)).toBe(0)
+    const self = (await admin.get('/api/auth/me')).body.user.id
+    expect((await admin.post(`/api/users/${self}/second-factor-reset`)).status).toBe(422)
   })
 })
