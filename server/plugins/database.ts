@@ -13,7 +13,7 @@ export function databaseReady(): Promise<void> {
 
 export default defineNitroPlugin(() => {
   databaseReady().catch((err) => {
-    console.error('[database] could not prepare or migrate the database:', err)
+    logFailure('database.start-failed', 'Could not prepare or migrate the database.', err)
     process.exitCode = 1
   })
 })

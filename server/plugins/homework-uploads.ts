@@ -14,9 +14,9 @@ export default defineNitroPlugin((nitro) => {
     try {
       await databaseReady()
       const removed = await cleanUpHomeworkUploads()
-      if (removed) console.log(`[homework-uploads] removed ${removed} expired or orphaned upload(s)`)
+      if (removed) logEvent('job.homework-upload-cleanup', { removed })
     }
-    catch (err) { console.error('[homework-uploads] cleanup failed:', err) }
+    catch (err) { logFailure('job.failed', 'The homework upload cleanup failed.', err) }
     finally { busy = false }
   }
   const first = setTimeout(run, Math.min(every, 5000))

@@ -12,7 +12,7 @@ export default defineNitroPlugin((nitro) => {
       await databaseReady()
       await runInvoiceSchedule()
     }
-    catch (err) { console.error('[invoices] schedule run failed:', err) }
+    catch (err) { logFailure('job.failed', 'The invoice schedule run failed.', err) }
   }
   const first = setTimeout(run, 7000)
   const timer = setInterval(run, every)

@@ -15,7 +15,7 @@ export default defineNitroPlugin((nitro) => {
       await databaseReady()
       while (await checkStaleSampleBanks(50) === 50) { /* the next batch */ }
     }
-    catch (err) { console.error('[samples] stock check failed:', err) }
+    catch (err) { logFailure('job.failed', 'The sample stock check failed.', err) }
     finally { busy = false }
   }
   const first = setTimeout(run, 5000)

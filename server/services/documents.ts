@@ -102,7 +102,7 @@ export async function deleteClientDocument(user: AuthUser, document: DocumentRec
     await logAudit(tx, { actorId: user.id, action: 'document.deleted', entityType: 'document', entityId: document.id, clientId: document.clientId, data: { title: document.title, kind: document.kind, originalName: document.originalName } })
   })
   await useFileStorage().delete(document.storageKey).catch((err) => {
-    console.warn(`[documents] the file ${document.storageKey} of a deleted document could not be removed:`, err)
+    logFailure('documents.remove-file', `The file ${document.storageKey} of a deleted document could not be removed.`, err, 'warn')
   })
   return before
 }

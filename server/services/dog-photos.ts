@@ -49,7 +49,7 @@ export async function replaceDogPhoto(user: AuthUser, dog: { id: string, clientI
     throw uploadSaveFailed(err, 'photo')
   }
   if (oldKey && oldKey !== storageKey) {
-    await storage.delete(oldKey).catch(err => console.warn(`[dog-photos] the old photo ${oldKey} could not be removed:`, err))
+    await storage.delete(oldKey).catch(err => logFailure('dog-photos.remove-old', `The old photo ${oldKey} could not be removed.`, err, 'warn'))
   }
   return { dogId: saved.dogId, contentType: saved.contentType, sizeBytes: saved.sizeBytes, updatedAt: saved.updatedAt }
 }

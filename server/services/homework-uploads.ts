@@ -86,7 +86,7 @@ function humaneTusError(err: { status_code?: number, body?: string, message?: st
   if (body.startsWith('{')) return { status_code: status, body }
   if (status >= 500) {
     if (status === 501) return tusError(400, 'Send the video as one upload (parallel or deferred-length uploads are not supported).')
-    console.error('[homework-uploads] tus failed:', err)
+    logFailure('homework-uploads.tus', 'The resumable upload handler failed.', err)
     return tusError(503, MESSAGES.generic)
   }
   const known: Record<number, string> = { 404: MESSAGES.notFound, 409: MESSAGES.conflict, 410: MESSAGES.expired, 413: MESSAGES.tooManyBytes, 423: MESSAGES.locked }
@@ -183,7 +183,7 @@ class HomeworkStagingStore extends FileStore {
       catch (err) {
         const code = (writeError as NodeJS.ErrnoException | null)?.code ?? (err as NodeJS.ErrnoException).code
         if (writeError || (code && DISK_ERRORS.has(code))) {
-          console.error(`[homework-uploads] staging write of ${id} failed (${code}); the bytes before it are kept:`, err)
+          logFailure('homework-uploads.staging-write', `Staging write of ${id} failed (${code}); the bytes before it are kept.`, err)
           throw tusError(503, code === 'ENOSPC' || code === 'EDQUOT' ? MESSAGES.diskFull : MESSAGES.storageDown)
         }
         throw err
@@ -236,7 +236,7 @@ export function useHomeworkTus(): { tus: TusServer, store: HomeworkStagingStore 
           })
         }
         catch (err) {
-          console.error('[homework-uploads] recording a new upload failed:', err)
+          logFailure('homework-uploads.record', 'Recording a new upload failed.', err)
           throw tusError(503, MESSAGES.generic)
         }
         return {}
@@ -334,7 +334,7 @@ async function doFinish(id: string): Promise<{ videoId: string }> {
     await storage.put(storageKey, createReadStream(path), { contentType: type.mime })
   }
   catch (err) {
-    console.error(`[homework-uploads] storing the finished upload ${id} failed; it stays staged for a retry:`, err)
+    logFailure('homework-uploads.store', `Storing the finished upload ${id} failed; it stays staged for a retry.`, err)
     await storage.delete(storageKey).catch(() => {})
     throw tusError(503, MESSAGES.storageDown)
   }
@@ -356,7 +356,7 @@ async function doFinish(id: string): Promise<{ videoId: string }> {
     })
   }
   catch (err) {
-    console.error(`[homework-uploads] recording the video of upload ${id} failed; it stays staged for a retry:`, err)
+    logFailure('homework-uploads.record-video', `Recording the video of upload ${id} failed; it stays staged for a retry.`, err)
     await storage.delete(storageKey).catch(() => {})
     throw tusError(503, MESSAGES.storageDown)
   }
@@ -368,7 +368,7 @@ async function doFinish(id: string): Promise<{ videoId: string }> {
   }
   rememberFinished(id, { videoId, userId: row.uploadedById, size })
   await useHomeworkTus().store.remove(id).catch((err) => {
-    console.warn(`[homework-uploads] the staged file of finished upload ${id} could not be removed (the cleanup will):`, err)
+    logFailure('homework-uploads.remove-staged', `The staged file of finished upload ${id} could not be removed (the cleanup will).`, err, 'warn')
   })
   return { videoId }
 }
@@ -589,7 +589,7 @@ export async function sendHomeworkVideoFile(event: H3Event, videoId: string) {
   let stored
   try { stored = await storage.stat(video.storageKey) }
   catch (err) {
-    console.error(`[homework-videos] file storage could not be reached for ${video.storageKey}:`, err)
+    logFailure('homework-videos.storage', `File storage could not be reached for ${video.storageKey}.`, err)
     refuse(503, 'The video cannot be fetched from storage just now. Please try again in a moment.')
   }
   if (!stored) refuse(404, 'The file of this video is missing from storage. Ask the handler to send it again.')
@@ -609,7 +609,7 @@ export async function sendHomeworkVideoFile(event: H3Event, videoId: string) {
   let object
   try { object = await storage.get(video.storageKey, range ?? undefined) }
   catch (err) {
-    console.error(`[homework-videos] reading ${video.storageKey} failed:`, err)
+    logFailure('homework-videos.read', `Reading ${video.storageKey} failed.`, err)
     refuse(503, 'The video cannot be fetched from storage just now. Please try again in a moment.')
   }
   if (!object) refuse(404, 'The file of this video is missing from storage. Ask the handler to send it again.')

@@ -33,7 +33,7 @@ export async function createInvoiceCheckout(user: AuthUser, invoice: InvoiceRow)
   }
   catch (err) {
     if ((err as { statusCode?: number }).statusCode === 409) throw err
-    console.error('[stripe]', (err as Error).message)
+    logFailure('stripe.failed', 'A call to Stripe failed.', err)
     throw createError({ statusCode: 503, statusMessage: 'Service Unavailable', message: 'Card payments are unavailable right now. Nothing was charged; try again in a few minutes.' })
   }
 }

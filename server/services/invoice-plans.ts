@@ -116,7 +116,7 @@ export async function createPlanInvoicesOnProgrammeStart(actor: AuthUser, client
   }
   catch (err) {
     // The programme stands; the office can still "create invoices from the plan" on the client's invoices page.
-    console.error('[invoices] plan invoices on programme start failed:', (err as Error)?.message ?? err)
+    logFailure('invoices.plan-on-start', 'Plan invoices on programme start failed.', err)
     return null
   }
 }

@@ -56,3 +56,13 @@ export type LogLevel = 'info' | 'warn' | 'error'
 export function logEvent(name: string, details: Record<string, unknown> = {}, level: LogLevel = 'info', event?: H3Event) {
   useLogger()[level]({ event: name, ...requestFields(event), ...details })
 }
+
+/** The text of an error for a log line (its message, never a whole object that might carry a request). */
+export function errorText(err: unknown): string {
+  return String((err as Error)?.message ?? err).slice(0, 500)
+}
+
+/** A failure of some work, as one JSON line: `what` names it ("homework-uploads.store"), `message` says it for people. */
+export function logFailure(what: string, message: string, err?: unknown, level: LogLevel = 'error') {
+  logEvent(what, { msg: message, ...(err !== undefined ? { err: errorText(err) } : {}) }, level)
+}

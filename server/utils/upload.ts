@@ -78,6 +78,6 @@ export async function detectUploadType(bytes: Buffer, allowed: readonly Accepted
 /** An upload whose file was written but whose record failed: the caller has removed the file; answer 503, not 500. */
 export function uploadSaveFailed(err: unknown, what: string) {
   if (isError(err)) return err
-  console.error(`[upload] saving ${what} failed; the stored file was removed again:`, err)
+  logFailure('upload.save', `Saving ${what} failed; the stored file was removed again.`, err)
   return createError({ statusCode: 503, statusMessage: 'Service Unavailable', message: `The ${what} could not be saved just now, and nothing was kept. Please try again in a moment.` })
 }

@@ -1,19 +1,23 @@
 // The outbox keeps an e-mail while the SMTP server is down and delivers it, once, when the server comes back.
+import { readFileSync } from 'node:fs'
+import { resolve } from 'node:path'
 import { createClient } from '@libsql/client'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startFakeSmtp, type FakeSmtp } from '../../fake-services/smtp/server.mjs'
 import { Agent, inbox, linkIn, waitForMail } from '../support/http'
 import { HANDLER_A } from '../support/people'
-import { startStack, type Stack } from '../support/stack'
+import { ROOT, startStack, type Stack } from '../support/stack'
 
 interface OutboxRow { id: number, status: string, attempts: number, last_error: string | null, next_attempt_at: number, sent_at: number | null }
 
 let stack: Stack
+// The server's JSON log: each failed sending is a "mail.failed" line (the security and operations log).
+const logFile = resolve(ROOT, `tests/.tmp/outbox-server-${Date.now()}.log`)
 let smtp: FakeSmtp | undefined
 
 beforeAll(async () => {
   // startSmtp: false: stack.smtpPort was free when chosen and nothing listens on it.
-  stack = await startStack({ label: 'outbox', startSmtp: false })
+  stack = await startStack({ label: 'outbox', startSmtp: false, logFile })
 })
 afterAll(async () => {
   await stack?.stop()
@@ -57,6 +61,11 @@ describe('outbox delivery', () => {
     expect(failed.next_attempt_at - seenAt).toBeGreaterThan(3_000)
     expect(failed.next_attempt_at - seenAt).toBeLessThanOrEqual(5_100)
     expect(await rowsFor(HANDLER_A)).toHaveLength(1)
+    const mailFailures = () => readFileSync(logFile, 'utf8').split('\n').filter(l => l.includes('"event":"mail.failed"')).map(l => JSON.parse(l))
+    for (let i = 0; i < 20 && !mailFailures().length; i++) await new Promise(r => setTimeout(r, 100))
+    const failures = mailFailures()
+    expect(failures[0]).toMatchObject({ level: 'warn', outboxId: failed.id, attempts: 1 })
+    expect(failures[0].err).toMatch(/ECONNREFUSED|connect/i)
 
     // The SMTP server comes up on the port the app was told to use.
     smtp = await startFakeSmtp({ smtpPort: stack.smtpPort, httpPort: 0, quiet: true })
