@@ -101,7 +101,8 @@ export default defineNuxtConfig({
     '/api/**': { headers: { 'cache-control': 'no-store' } },
   },
   nitro: {
-    // useEvent() anywhere in a request (the logger puts the request id on every line).
+    // useEvent() anywhere in a request (the logger puts the request id on every line; a request key is marked
+    // inside its record's transaction).
     experimental: { tasks: false, asyncContext: true },
     output: { dir: process.env.NUXT_OUTPUT_DIR || '.output' },
     imports: { dirs: ['server/services'] },

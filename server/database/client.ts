@@ -20,7 +20,8 @@ export function openDatabase(url = DEFAULT_DATABASE_URL, authToken?: string, opt
   // `timeout` is applied by the client to every pooled connection as SQLite's busy timeout; libSQL opens
   // connections with foreign keys enforced. Both hold inside transactions (see tests/integration/db.test.ts).
   const raw = createClient({ url, authToken: authToken || undefined, timeout: BUSY_TIMEOUT_MS })
-  const client = url.startsWith('file:') && opts.serialiseWrites !== false ? serialiseWrites(raw) : raw
+  const serialised = url.startsWith('file:') && opts.serialiseWrites !== false ? serialiseWrites(raw) : raw
+  const client = withCommitHook(serialised)
   return { client, db: drizzle(client, { schema }) }
 }
 
@@ -37,6 +38,40 @@ export function protectDatabaseFile(path: string) {
   for (const f of [full, `${full}-wal`, `${full}-shm`]) {
     if (existsSync(f)) chmodSync(f, 0o600)
   }
+}
+
+/** Statements to run inside every transaction just before it commits (e.g. marking a request key as applied). */
+export type BeforeCommit = () => { sql: string, args: (string | number | null)[] } | null
+let beforeCommit: BeforeCommit | null = null
+export function setBeforeCommit(fn: BeforeCommit | null) { beforeCommit = fn }
+
+/**
+ * Runs the registered before-commit statement in the transaction itself, so what it records commits or rolls back
+ * with the transaction's own writes (the request key of a record is marked applied together with the record).
+ */
+function withCommitHook(client: Client): Client {
+  return new Proxy(client, {
+    get(target, prop, receiver) {
+      const v = Reflect.get(target, prop, receiver)
+      if (prop !== 'transaction') return typeof v === 'function' ? v.bind(target) : v
+      return async (...args: Parameters<Client['transaction']>) => {
+        const tx = await (v as Client['transaction']).apply(target, args)
+        return new Proxy(tx, {
+          get(t, p, r) {
+            const tv = Reflect.get(t, p, r)
+            if (p === 'commit') {
+              return async () => {
+                const stmt = beforeCommit?.()
+                if (stmt) await t.execute(stmt)
+                return (tv as () => Promise<void>).call(t)
+              }
+            }
+            return typeof tv === 'function' ? tv.bind(t) : tv
+          },
+        })
+      }
+    },
+  })
 }
 
 const READ_ONLY = /^\s*(select\b|pragma\s+\w+\s*$|explain\b)/i

@@ -5,18 +5,14 @@ import { readdirSync, statSync } from 'node:fs'
 import { join, relative, resolve } from 'node:path'
 import { describe, expect, inject, it } from 'vitest'
 import { Agent, signIn } from '../support/http'
-import { ACTORS, type Actor, type Row } from '../support/authz'
+import { ACTORS, loadRows, type Actor, type Row } from '../support/authz'
 import { ADMIN } from '../support/people'
 import { resetDatabase } from '../support/stack'
 
 const baseUrl = inject('baseUrl')
 const databaseUrl = inject('databaseUrl')
 
-const rowsDir = resolve(import.meta.dirname, 'authz-rows')
-const ROWS: Row[] = []
-for (const f of readdirSync(rowsDir).filter(f => f.endsWith('.ts')).sort()) {
-  ROWS.push(...((await import(join(rowsDir, f))) as { rows: Row[] }).rows)
-}
+const ROWS: Row[] = await loadRows()
 
 function routeFiles(dir: string): string[] {
   return readdirSync(dir).flatMap((name) => {

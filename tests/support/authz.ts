@@ -35,3 +35,15 @@ export const adminOnly = (status: number): Record<Actor, number> => ({ anonymous
 export const clientA = (ok: number, handlerA = ok): Record<Actor, number> => ({ anonymous: 401, handlerA, handlerB: 404, trainerA: ok, trainerB: 404, admin: ok })
 export const ids = (res: ApiResponse) => (res.body.rows as { id: string }[]).map(r => r.id)
 export { expect }
+
+/** Every row of tests/integration/authz-rows/*.ts, in file order. */
+export async function loadRows(): Promise<Row[]> {
+  const { readdirSync } = await import('node:fs')
+  const { join, resolve } = await import('node:path')
+  const dir = resolve(import.meta.dirname, '../integration/authz-rows')
+  const rows: Row[] = []
+  for (const f of readdirSync(dir).filter(f => f.endsWith('.ts')).sort()) {
+    rows.push(...((await import(join(dir, f))) as { rows: Row[] }).rows)
+  }
+  return rows
+}
