@@ -8,7 +8,7 @@ export default defineNuxtConfig({
   // Separate build folders let several checkouts or helpers build side by side (default .nuxt and .output).
   buildDir: process.env.NUXT_BUILD_DIR || '.nuxt',
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils', 'nuxt-security'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils', 'nuxt-security', '@vite-pwa/nuxt'],
   css: ['@fontsource-variable/inter/index.css', '~/assets/css/main.css'],
   tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
   app: {
@@ -19,8 +19,51 @@ export default defineNuxtConfig({
         { name: 'viewport', content: 'width=device-width, initial-scale=1, viewport-fit=cover' },
         { name: 'theme-color', content: '#1f4d45' },
       ],
-      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }, { rel: 'apple-touch-icon', href: '/apple-touch-icon.png' }],
     },
+  },
+  // Installable on a phone's home screen, and the app's screens open with no signal after one visit (docs/offline.md).
+  pwa: {
+    registerType: 'prompt', // a new version waits until the person taps "Update" (components/app/AppUpdateNotice.vue)
+    injectRegister: false,
+    client: { installPrompt: false, periodicSyncForUpdates: 60 * 60 },
+    manifest: {
+      // W3C Web App Manifest fields; the name and colours are our own.
+      id: '/',
+      name: 'Forescent',
+      short_name: 'Forescent',
+      description: 'Alert diary, scent samples, training and homework for medical alert dog programmes.',
+      lang: 'en-GB',
+      start_url: '/', // the global middleware sends each person to their own area's home
+      scope: '/',
+      display: 'standalone',
+      theme_color: '#1f4d45',
+      background_color: '#fbf9f5',
+      icons: [
+        { src: '/icon-192.png', sizes: '192x192', type: 'image/png' },
+        { src: '/icon-512.png', sizes: '512x512', type: 'image/png' },
+        { src: '/icon-maskable-512.png', sizes: '512x512', type: 'image/png', purpose: 'maskable' },
+        { src: '/favicon.svg', sizes: 'any', type: 'image/svg+xml' },
+      ],
+    },
+    workbox: {
+      // The shell (scripts, styles, fonts, icons) is kept ahead; pages are kept as they are visited.
+      globPatterns: ['**/*.{js,css,woff2,svg,png}'],
+      navigateFallback: null,
+      cleanupOutdatedCaches: true,
+      runtimeCaching: [{
+        // Screens: the network first (always fresh with a signal), the last copy of that screen without one.
+        urlPattern: ({ request, url }) => request.mode === 'navigate' && !url.pathname.startsWith('/api/'),
+        handler: 'NetworkFirst',
+        options: {
+          cacheName: 'forescent-pages',
+          networkTimeoutSeconds: 6, // a weak signal falls back to the kept screen after this long (common practice)
+          cacheableResponse: { statuses: [200] },
+          expiration: { maxEntries: 60, maxAgeSeconds: 60 * 60 * 24 * 14 },
+        },
+      }],
+    },
+    devOptions: { enabled: false }, // no worker in `npm run dev` (it would keep stale pages while editing)
   },
   runtimeConfig: {
     // Each value can be set with NUXT_<NAME> at run time; see README "Configuration".

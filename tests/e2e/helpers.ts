@@ -26,3 +26,25 @@ export async function signOut(page: Page) {
 export async function shot(page: Page, name: string) {
   if (process.env.E2E_SCREENSHOTS) await page.screenshot({ path: `${process.env.E2E_SCREENSHOTS}/${name}.png`, fullPage: true })
 }
+
+/** The records waiting in the phone's outbox (IndexedDB "forescent-outbox", see stores/outbox.ts). */
+export async function outboxItems(page: Page): Promise<{ key: string, label: string, tappedAt: string, url: string, refused?: { message: string } }[]> {
+  return page.evaluate(() => new Promise((ok, fail) => {
+    const open = indexedDB.open('forescent-outbox')
+    open.onerror = () => fail(open.error)
+    open.onupgradeneeded = () => open.result.createObjectStore('items')
+    open.onsuccess = () => {
+      const db = open.result
+      const req = db.transaction('items', 'readonly').objectStore('items').getAll()
+      req.onsuccess = () => { ok(req.result); db.close() }
+      req.onerror = () => fail(req.error)
+    }
+  }))
+}
+
+/** Waits until the service worker controls the page (one reload after its first install). */
+export async function waitForWorker(page: Page) {
+  await page.evaluate(() => navigator.serviceWorker.ready.then(() => true))
+  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload()
+  await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 20_000 }).toBe(true)
+}

@@ -3,7 +3,7 @@ import { seedId } from '../../scripts/lib/seed-data'
 import { waitForMail } from '../support/http'
 import { CLIENT_A, HANDLER_A, TRAINER_A } from '../support/people'
 import { resetDatabase } from '../support/stack'
-import { DESKTOP, PHONE, shot, signInAs } from './helpers'
+import { DESKTOP, PHONE, outboxItems, shot, signInAs } from './helpers'
 
 // These tests log sessions and sign off a milestone: start from, and leave behind, the plain demo.
 test.beforeEach(async () => { await resetDatabase(process.env.E2E_DATABASE_URL!) })
@@ -130,7 +130,7 @@ test('trials tapped without a signal survive a reload and are sent once when the
   await expect(page.getByTestId('pad-trials')).not.toContainText('waiting to send')
   await page.getByTestId('finish-session').click()
   await expect(page.getByTestId('criterion-trials')).toContainText('33 trials')
-  expect(await page.evaluate(() => JSON.parse(localStorage.getItem('trial-queue') ?? '{}').queue?.length ?? -1)).toBe(0)
+  await expect.poll(async () => (await outboxItems(page)).length).toBe(0)
 })
 
 test('the trainer\'s session list across clients, and a dog\'s reliability page, at phone and desktop widths', async ({ page }) => {
