@@ -19,6 +19,9 @@ export default defineConfig({
     locale: 'en-GB',
     timezoneId: 'Europe/London',
     trace: 'retain-on-failure',
+    // Request interception (page.route) does not see requests a service worker handles; the offline tests allow
+    // the worker where they test it (tests/e2e/offline.spec.ts).
+    serviceWorkers: 'block',
     screenshot: 'only-on-failure',
     launchOptions: {
       executablePath: chromium,

@@ -7,6 +7,12 @@ const RETRY_EVERY_MS = 5_000 // cheap: with no signal at all the phone says so a
 export default defineNuxtPlugin((nuxtApp) => {
   const outbox = useOutboxStore(nuxtApp.$pinia as never)
   const send = () => { if (navigator.onLine !== false) void outbox.send() }
+  // Records go only while the person who made them is signed in; a new sign-in of that person sends them.
+  const { user } = useUserSession()
+  watch(() => user.value?.id ?? null, (id) => {
+    outbox.userId = id
+    if (id) send()
+  }, { immediate: true })
   nuxtApp.hook('app:mounted', async () => {
     await outbox.load()
     send()

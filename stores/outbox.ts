@@ -34,6 +34,8 @@ export const useOutboxStore = defineStore('outbox', {
     /** Server ids of sent records, by their key, with when they were learnt. */
     ids: {} as Record<string, { id: string, at: number }>,
     loaded: false,
+    /** The signed-in person (kept by plugins/outbox.client.ts): only their records are sent. */
+    userId: null as string | null,
     /** Answers of records sent since the page opened, by key (screens pick up the server's row from here). */
     sent: {} as Record<string, unknown>,
     lastError: '' as string,
@@ -63,11 +65,11 @@ export const useOutboxStore = defineStore('outbox', {
     /** Keeps a new record on the phone (first) and returns its key; send() then tries to deliver it. */
     async add(record: NewRecord): Promise<OutboxItem> {
       await this.load()
-      const user = useUserSession().user.value
-      if (!user) throw new Error('Sign in to record this.')
+      const userId = this.userId
+      if (!userId) throw new Error('Sign in to record this.')
       const now = new Date().toISOString()
       const item: OutboxItem = {
-        key: record.key ?? crypto.randomUUID(), userId: user.id, label: record.label, method: record.method, url: record.url,
+        key: record.key ?? crypto.randomUUID(), userId, label: record.label, method: record.method, url: record.url,
         body: record.body, tappedAt: record.tappedAt ?? now, queuedAt: now, seq: seq++, attempts: 0,
       }
       await this.save(item)
@@ -109,10 +111,10 @@ export const useOutboxStore = defineStore('outbox', {
     },
     async sendAll() {
       await this.load()
-      const user = useUserSession().user.value
-      if (!user) return
+      const userId = this.userId
+      if (!userId) return
       const ids = Object.fromEntries(Object.entries(this.ids).map(([k, v]) => [k, v.id]))
-      for (const item of sendOrder(this.items, user.id)) {
+      for (const item of sendOrder(this.items, userId)) {
         const url = resolveRefs(item.url, ids)
         const body = resolveRefs(item.body, ids)
         if (url === null || (item.body !== undefined && body === null)) continue // waits for an earlier record

@@ -6,6 +6,7 @@ import { outboxItems, PHONE, shot, signInAs, waitForWorker } from './helpers'
 
 // No signal in a field, a barn or a basement: records made on the phone wait on it and arrive once, with the time
 // of the tap, when the signal is back. The browser context is set offline (Playwright's setOffline).
+test.use({ serviceWorkers: 'allow' })
 test.beforeEach(async () => { await resetDatabase(process.env.E2E_DATABASE_URL!) })
 test.afterAll(async () => { await resetDatabase(process.env.E2E_DATABASE_URL!) })
 
@@ -88,25 +89,29 @@ test('a trainer starts, logs and finishes a session with no signal, and it arriv
   expect(trials.map(t => [t.target_station, t.indicated_station])).toEqual([[1, 1], [1, 2], [null, null]])
 })
 
-test('a record the server refuses is kept with its reason until the person discards it', async ({ page, context }) => {
-  await page.setViewportSize(PHONE)
-  await signInAs(page, HANDLER_A)
-  await page.goto(`/handler/diary/${CLIENT_A}`)
-  await expect(page.getByTestId('diary-title')).toBeVisible()
-  await context.setOffline(true)
-  await page.getByRole('button', { name: 'Juniper alerted' }).click()
-  await expect(status(page)).toContainText('1 record waiting to send')
-  // While it waited, a rule changed on the server: it refuses the record with a reason.
-  await page.route('**/api/clients/*/diary', route => route.request().method() === 'POST'
-    ? route.fulfill({ status: 422, contentType: 'application/json', body: JSON.stringify({ statusCode: 422, message: 'This household’s diary is closed.' }) })
-    : route.continue())
-  await context.setOffline(false)
-  await expect(status(page)).toContainText('1 refused by the server', { timeout: 20_000 })
-  await expect(page.getByTestId('outbox-item')).toContainText('Refused by the server: This household’s diary is closed.')
-  await shot(page, 'offline-refused-phone')
-  await page.getByTestId('outbox-discard').click()
-  await expect(status(page)).toBeHidden()
-  expect(await outboxItems(page)).toEqual([])
+test.describe('refusals', () => {
+  // Playwright's request interception does not see requests through a service worker: this one runs without it.
+  test.use({ serviceWorkers: 'block' })
+  test('a record the server refuses is kept with its reason until the person discards it', async ({ page, context }) => {
+    await page.setViewportSize(PHONE)
+    await signInAs(page, HANDLER_A)
+    await page.goto(`/handler/diary/${CLIENT_A}`)
+    await expect(page.getByTestId('diary-title')).toBeVisible()
+    await context.setOffline(true)
+    await page.getByRole('button', { name: 'Juniper alerted' }).click()
+    await expect(status(page)).toContainText('1 record waiting to send')
+    // While it waited, a rule changed on the server: it refuses the record with a reason.
+    await page.route('**/api/clients/*/diary', route => route.request().method() === 'POST'
+      ? route.fulfill({ status: 422, contentType: 'application/json', body: JSON.stringify({ statusCode: 422, message: 'This household’s diary is closed.' }) })
+      : route.continue())
+    await context.setOffline(false)
+    await expect(status(page)).toContainText('1 refused by the server', { timeout: 20_000 })
+    await expect(page.getByTestId('outbox-item')).toContainText('Refused by the server: This household’s diary is closed.')
+    await shot(page, 'offline-refused-phone')
+    await page.getByTestId('outbox-discard').click()
+    await expect(status(page)).toBeHidden()
+    expect(await outboxItems(page)).toEqual([])
+  })
 })
 
 test('the app is installable: its manifest, icons and a service worker controlling the page after a reload', async ({ page, request }) => {
