@@ -19,6 +19,9 @@ function stores() {
 /** Ids the server gave to sent records are kept this long, for records that still name them (common practice). */
 const ID_KEEP_MS = 14 * 86_400_000
 
+/** A send with no answer after this long is tried again later (a weak signal; common practice). */
+const SEND_TIMEOUT_MS = 20_000
+
 export interface NewRecord { key?: string, label: string, method: OutboxMethod, url: string, body?: unknown, tappedAt?: string }
 export interface SentRecord { key: string, result: unknown }
 
@@ -127,6 +130,7 @@ export const useOutboxStore = defineStore('outbox', {
           result = await $fetch<unknown>(url as string, {
             method: item.method, body: item.method === 'DELETE' ? undefined : (body as Record<string, unknown>),
             headers: { [REQUEST_KEY_HEADER]: item.key, [TAPPED_AT_HEADER]: item.tappedAt },
+            timeout: SEND_TIMEOUT_MS,
           })
           kind = 'sent'
         }

@@ -24,7 +24,8 @@ export default defineEventHandler(async (event) => {
   }
   const user = event.context.authUser
   if (!user) return // the route answers 401 itself
-  const bodyHash = /json/i.test(getHeader(event, 'content-type') ?? '') ? createHash('sha256').update((await readRawBody(event)) ?? '').digest('hex') : null
+  // The body is read once, within its size limit, and kept for the route (server/utils/body.ts).
+  const bodyHash = /json/i.test(getHeader(event, 'content-type') ?? '') ? createHash('sha256').update(await readBodyCapped(event, bodyLimitOf(event))).digest('hex') : null
 
   const db = useDb()
   for (let attempt = 0; attempt < 2; attempt++) {

@@ -20,6 +20,9 @@ export function declaredLength(event: H3Event): number | null {
  * so); `tooLarge` makes the error. The rest of a refused body is drained, not kept.
  */
 export async function readBodyCapped(event: H3Event, limit: number, tooLarge: () => never = () => bodyTooLarge(limit)): Promise<Buffer> {
+  // Read once per request: the record-key middleware hashes the body before the route parses it.
+  const kept = event.context.cappedBody as Buffer | undefined
+  if (kept) return kept
   const declared = declaredLength(event)
   if (declared !== null && declared > limit) tooLarge()
   const req = event.node.req
@@ -36,7 +39,11 @@ export async function readBodyCapped(event: H3Event, limit: number, tooLarge: ()
         req.resume()
         fail(err)
       }
-      else ok(Buffer.concat(chunks))
+      else {
+        const body = Buffer.concat(chunks)
+        event.context.cappedBody = body
+        ok(body)
+      }
     }
     const onData = (chunk: Buffer) => {
       total += chunk.length
