@@ -11,6 +11,7 @@ import { SAMPLE_TABLES_CHILD_FIRST, seedSampleBanks } from './seed-samples'
 import { TRAINING_TABLES_CHILD_FIRST, seedBulkTraining, seedTraining } from './seed-training'
 import { INVOICE_TABLES_CHILD_FIRST, seedInvoices } from './seed-invoices'
 import { HOMEWORK_TABLES_CHILD_FIRST, seedHomework } from './seed-homework'
+import { SCHEDULE_TABLES_CHILD_FIRST, seedSchedule } from './seed-schedule'
 
 export const DEMO_PASSWORD = process.env.DEMO_PASSWORD || 'forescent-demo'
 export const BUSINESS_NAME = 'Larkspur Scent Partners'
@@ -65,7 +66,7 @@ export const CLIENTS: ClientSeed[] = [
   { key: 'ferris', trainer: 'trainer3', household: 'Ferris household', person: 'Elliot Ferris', condition: 'seizure', conditionDetail: 'Epilepsy, age 9', status: 'active', startedDaysAgo: 98, earlySigns: 'Staring spells before larger seizures.', frequency: 'About 5 a month', onset: 'Early morning', town: 'Kestle Bay', handlers: [{ key: 'h-ferris', relationship: 'parent' }], dog: { name: 'Wren', breed: 'Australian Shepherd', sex: 'female', ageDays: 700, source: 'programme-bred', status: 'in-training' } },
 ]
 
-const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'recovery_codes', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...HOMEWORK_TABLES_CHILD_FIRST, ...INVOICE_TABLES_CHILD_FIRST, ...TRAINING_TABLES_CHILD_FIRST, ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
+const TABLES_CHILD_FIRST = ['outbox', 'audit_log', ...SCHEDULE_TABLES_CHILD_FIRST, 'recovery_codes', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...HOMEWORK_TABLES_CHILD_FIRST, ...INVOICE_TABLES_CHILD_FIRST, ...TRAINING_TABLES_CHILD_FIRST, ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
 
 /**
  * Empties every table and writes the demo scenario, in one transaction. `filesDir` is the local file storage the
@@ -103,6 +104,7 @@ export async function seedDemo(db: Database, opts: { extraClients?: number, file
     await seedHomework(tx, { today, seedId, filesDir })
     // After the training seed: the fee schedule belongs to the default programme template.
     await seedInvoices(tx, today, seedId)
+    await seedSchedule(tx, { today, seedId })
     const extra = opts.extraClients ?? 0
     if (extra > 0) await seedExtraClients(tx, extra, today)
   })

@@ -140,6 +140,8 @@ export async function reassignClient(admin: AuthUser, client: ClientRow, trainer
     const next = await requireActiveTrainer(tx, trainerId)
     const [prev] = await tx.select().from(users).where(eq(users.id, client.trainerId))
     const [row] = await tx.update(clients).set({ trainerId }).where(eq(clients.id, client.id)).returning()
+    // Visits still to come move to the new trainer's diary; past ones stay with who held them.
+    await moveFutureAppointments(tx, client.id, trainerId)
     const handlers = await householdHandlers(tx, client.id)
     const extra = note ? [`Note from the office: ${note}`] : []
     const link = { label: 'Open the client file', url: appUrl(`/trainer/clients/${client.id}`) }

@@ -7,7 +7,8 @@ import { invoicePolicy, reminderPolicy } from './settings-invoices'
 import { trainingPolicy } from './settings-training'
 import { homeworkUploadPolicy } from './settings-homework'
 import { securityPolicy } from './settings-security'
+import { workingDayPolicy } from './settings-working-day'
 
-const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy, invoicePolicy, reminderPolicy, trainingPolicy, homeworkUploadPolicy, securityPolicy]
+const ALL: SettingDefinition<any>[] = [businessProfile, samplePolicySetting, diaryPolicy, invoicePolicy, reminderPolicy, trainingPolicy, homeworkUploadPolicy, securityPolicy, workingDayPolicy]
 
 export const SETTINGS: Record<string, SettingDefinition<any>> = Object.fromEntries(ALL.map(d => [d.key, d]))

@@ -3,9 +3,9 @@ import { ADMIN, CLIENT_A, CLIENT_B, HANDLER_A, HANDLER_B, TRAINER_A, TRAINER_B }
 import { DESKTOP, PHONE, shot, signInAs, signOut } from './helpers'
 
 const ROLES = [
-  { who: 'admin', email: ADMIN, area: /\/admin$/, heading: 'Business overview', foreign: null },
-  { who: 'trainer', email: TRAINER_A, area: /\/trainer$/, heading: 'Your roster', foreign: `/trainer/clients/${CLIENT_B}` },
-  { who: 'trainer2', email: TRAINER_B, area: /\/trainer$/, heading: 'Your roster', foreign: `/trainer/clients/${CLIENT_A}` },
+  { who: 'admin', email: ADMIN, area: /\/admin$/, heading: 'Today at the office', foreign: null },
+  { who: 'trainer', email: TRAINER_A, area: /\/trainer$/, heading: 'Today', foreign: `/trainer/clients/${CLIENT_B}` },
+  { who: 'trainer2', email: TRAINER_B, area: /\/trainer$/, heading: 'Today', foreign: `/trainer/clients/${CLIENT_A}` },
   { who: 'handler', email: HANDLER_A, area: /\/handler$/, heading: 'Ada Fairweather', foreign: `/handler/clients/${CLIENT_B}` },
   { who: 'handler2', email: HANDLER_B, area: /\/handler$/, heading: 'Ruth Achterberg', foreign: `/handler/clients/${CLIENT_A}` },
 ]
@@ -53,9 +53,10 @@ test('the form shows field errors from the shared schema before sending', async 
 
 test('the trainer sees their client file and the handler theirs', async ({ page }) => {
   await signInAs(page, TRAINER_A)
+  await page.goto('/trainer/roster') // the trainer lands on Today; the roster is one tap away
   await page.getByRole('link', { name: /Fairweather household/ }).click()
   await expect(page.getByTestId('client-title')).toHaveText('Fairweather household')
-  await expect(page.getByText('Juniper')).toBeVisible()
+  await expect(page.getByTestId('client-dogs').getByText('Juniper', { exact: true })).toBeVisible()
   await shot(page, 'trainer-client-file-desktop')
   await signOut(page)
   await page.setViewportSize(PHONE)

@@ -6,6 +6,7 @@ import { DESKTOP, PHONE, shot, signInAs } from './helpers'
 test('a trainer creates a client through the intake form and the handler is invited', async ({ page }) => {
   await page.setViewportSize(DESKTOP)
   await signInAs(page, TRAINER_A)
+  await page.goto('/trainer/roster') // the trainer lands on Today; the roster is one tap away
   await page.getByRole('link', { name: 'New client' }).click()
   await expect(page.getByRole('heading', { name: 'New client' })).toBeVisible()
   // Submitting empty shows the schema's field errors.
@@ -51,6 +52,7 @@ test('roster column choices and page size stay after a reload', async ({ page })
 test('the roster and a client file read well on a phone', async ({ page }) => {
   await page.setViewportSize(PHONE)
   await signInAs(page, TRAINER_A)
+  await page.goto('/trainer/roster') // the trainer lands on Today; the roster is one tap away
   await expect(page.getByTestId('client-cards')).toContainText('Fairweather household')
   await expect(page.getByTestId('client-table')).toBeHidden()
   await page.getByLabel('Sort by').selectOption('started:asc')

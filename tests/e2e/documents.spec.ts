@@ -8,6 +8,7 @@ const TITLE = 'Letter from Dr Ørsted' // invented
 test('the trainer uploads a document, the household downloads it, another household cannot open it', async ({ page }) => {
   await page.setViewportSize(DESKTOP)
   await signInAs(page, TRAINER_A)
+  await page.goto('/trainer/roster') // the trainer lands on Today; the roster is one tap away
   await page.getByRole('link', { name: /Fairweather household/ }).click()
   await expect(page.getByTestId('client-title')).toHaveText('Fairweather household')
   const docs = page.getByTestId('client-documents')
@@ -100,6 +101,7 @@ test('the trainer uploads a document, the household downloads it, another househ
 test('the documents panel shows its loading and error states and recovers on "Try again"', async ({ page }) => {
   await page.setViewportSize(PHONE)
   await signInAs(page, TRAINER_A)
+  await page.goto('/trainer/roster') // the trainer lands on Today; the roster is one tap away
   // The roster link navigates in the browser, so the panel's request can be held back or refused here.
   let release: () => void = () => {}
   const held = new Promise<void>((r) => { release = r })

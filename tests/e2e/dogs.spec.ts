@@ -16,6 +16,7 @@ const day = (offset: number) => {
 
 async function openJuniperAsTrainer(page: Page) {
   await signInAs(page, TRAINER_A)
+  await page.goto('/trainer/roster') // the trainer lands on Today; the roster is one tap away
   await page.getByRole('link', { name: /Fairweather household/ }).click()
   await expect(page.getByTestId('client-title')).toHaveText('Fairweather household')
   const dogs = page.getByTestId('client-dogs')
@@ -79,6 +80,7 @@ test('the trainer opens Juniper from the Fairweather file, records a health reco
 test('the status form names the acceptance rule for a new dog, and the phone layout holds', async ({ page }) => {
   await page.setViewportSize(PHONE)
   await signInAs(page, TRAINER_A)
+  await page.goto('/trainer/roster') // the trainer lands on Today; the roster is one tap away
   await page.getByRole('link', { name: /Fairweather household/ }).click()
   await page.getByRole('button', { name: 'Add a dog' }).click()
   const add = page.getByRole('form', { name: 'Add a dog' })

@@ -11,7 +11,11 @@ const HOMEWORK_VIDEO_A = seedId('video:fairweather:two-controls:1')
 
 const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp | string }[] }[] = [
   { who: 'admin', email: ADMIN, pages: [
-    { path: '/admin', heading: 'Business overview' },
+    { path: '/admin', heading: 'Today at the office' },
+    { path: '/admin/calendar', heading: 'Calendar' },
+    { path: '/admin/messages', heading: 'Messages' },
+    { path: `/admin/clients/${CLIENT_A}/messages`, heading: 'Messages' },
+    { path: `/admin/appointments/${seedId('appointment:fairweather-weekly:1')}`, heading: 'Appointment' },
     { path: '/admin/clients', heading: 'All clients' },
     { path: '/admin/trainers', heading: 'Trainers' },
     { path: '/admin/settings', heading: 'Policies' },
@@ -24,7 +28,13 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
     { path: '/admin/homework', heading: 'Homework to review' },
   ] },
   { who: 'trainer', email: TRAINER_A, pages: [
-    { path: '/trainer', heading: 'Your roster' },
+    { path: '/trainer', heading: 'Today' },
+    { path: '/trainer/roster', heading: 'Your roster' },
+    { path: '/trainer/calendar', heading: 'Calendar' },
+    { path: `/trainer/appointments/${seedId('appointment:fairweather-weekly:1')}`, heading: 'Appointment' },
+    { path: '/trainer/messages', heading: 'Messages' },
+    { path: `/trainer/clients/${CLIENT_A}/messages`, heading: 'Messages' },
+    { path: '/trainer/account', heading: 'Your account' },
     { path: `/trainer/clients/${CLIENT_A}`, heading: 'Fairweather household' },
     { path: '/trainer/clients/new', heading: 'New client' },
     { path: `/trainer/clients/${CLIENT_A}/samples`, heading: 'Sample bank' },
@@ -39,6 +49,9 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
   ] },
   { who: 'handler', email: HANDLER_A, pages: [
     { path: '/handler', heading: 'Ada Fairweather' },
+    { path: '/handler/calendar', heading: 'Your visits' },
+    { path: `/handler/messages/${CLIENT_A}`, heading: 'Messages' },
+    { path: '/handler/account', heading: 'Your account' },
     { path: `/handler/clients/${CLIENT_A}`, heading: 'Fairweather household' },
     { path: `/handler/samples/${CLIENT_A}`, heading: 'Our samples' },
     { path: `/handler/samples/${CLIENT_A}/collect`, heading: 'Collect a sample' },

@@ -108,6 +108,8 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       SAMPLE_CHECK_INTERVAL_MS: '1000',
       // The hourly invoice job (scheduled instalments, overdue reminders) is driven by its route in the tests instead.
       INVOICE_SCHEDULE: 'off',
+      // Reminder e-mails are driven by their route (POST /api/reminders/run) in the tests, so runs are deterministic.
+      REMINDERS: 'off',
       ...opts.env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
