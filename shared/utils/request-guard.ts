@@ -43,6 +43,8 @@ const UPLOAD_ROUTES = [
   /^\/api\/clients\/[^/]+\/documents$/,
   /^\/api\/dogs\/[^/]+\/photo$/,
   /^\/api\/homework-uploads(\/[^/]+)?$/,
+  // A message may carry a photo or a PDF (multipart); without one it is JSON, checked by the route itself.
+  /^\/api\/clients\/[^/]+\/messages$/,
 ]
 // Routes anyone can call without signing in: a small limit.
 const AUTH_ROUTES = [/^\/api\/auth\//, /^\/api\/invitations\/[^/]+\/accept$/]
