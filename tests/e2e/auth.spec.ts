@@ -61,7 +61,7 @@ test('the trainer sees their client file and the handler theirs', async ({ page 
   await signOut(page)
   await page.setViewportSize(PHONE)
   await signInAs(page, HANDLER_A)
-  await page.getByRole('link', { name: /Juniper/ }).click()
+  await page.getByRole('link', { name: /Migraine · Fairweather household/ }).click()
   await expect(page.getByTestId('client-title')).toHaveText('Fairweather household')
   await shot(page, 'handler-client-file-phone')
 })
