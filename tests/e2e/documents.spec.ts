@@ -65,7 +65,7 @@ test('the trainer uploads a document, the household downloads it, another househ
   // The handler, on a phone, sees it on their file and downloads it; no rename or delete for them.
   await page.setViewportSize(PHONE)
   await signInAs(page, HANDLER_A)
-  await page.getByRole('link', { name: /Juniper/ }).click()
+  await page.getByRole('link', { name: /Migraine · Fairweather household/ }).click()
   await expect(page.getByTestId('client-title')).toHaveText('Fairweather household')
   const hdocs = page.getByTestId('client-documents')
   await expect(hdocs.getByRole('link', { name: `Download ${TITLE} (spring)` })).toBeVisible()

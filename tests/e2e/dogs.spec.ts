@@ -111,7 +111,7 @@ test('the status form names the acceptance rule for a new dog, and the phone lay
 test('the handler sees Juniper read-only on a phone, in plain words', async ({ page }) => {
   await page.setViewportSize(PHONE)
   await signInAs(page, HANDLER_A)
-  await page.getByRole('link', { name: /Juniper/ }).click()
+  await page.getByRole('link', { name: /Migraine · Fairweather household/ }).click()
   await expect(page.getByTestId('client-title')).toHaveText('Fairweather household')
   await page.getByTestId('client-dogs').getByRole('link', { name: /Juniper/ }).click()
   await expect(page).toHaveURL(/\/handler\/dogs\//)
