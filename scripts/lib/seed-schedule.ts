@@ -3,7 +3,8 @@
 // (Europe/London), relative to the seed's day.
 import type { Database } from '../../server/database/client'
 import * as s from '../../server/database/schema'
-import { addDays, instantOfWallTime, planSeries } from '../../shared/utils/schedule'
+import { addDays } from '../../shared/utils/invoices'
+import { instantOfWallTime, planSeries } from '../../shared/utils/schedule'
 import type { AppointmentKind } from '../../shared/utils/schedule'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]

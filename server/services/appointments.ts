@@ -7,8 +7,10 @@ import type { AppointmentCancelInput, AppointmentCreateInput, AppointmentUpdateI
 import { businessProfile, businessProfileSchema } from '../../shared/schemas/settings-business'
 import { WORKING_DAY_POLICY_DEFAULTS, WORKING_DAY_POLICY_KEY, workingDayPolicySchema, type WorkingDayPolicy } from '../../shared/schemas/settings-working-day'
 import {
-  APPOINTMENT_KIND_LABELS, addDays, dayRange, daysBetween, endOf, instantOfWallTime, overlaps, planSeries, wallTimeOf, type WallTime,
+  APPOINTMENT_KIND_LABELS, clockMinutes, dayRange, endOf, instantOfWallTime, overlaps, planSeries, visitWhenText, wallTimeOf, type WallTime,
 } from '../../shared/utils/schedule'
+import { daysBetween } from '../../shared/utils/homework'
+import { addDays } from '../../shared/utils/invoices'
 import type { AuthUser } from '../utils/authz'
 import type { DbOrTx, Tx } from '../utils/db'
 import type { IcsAppointment } from './calendar-ics'
@@ -107,10 +109,7 @@ export async function getAppointment(user: AuthUser, appointmentId: string) {
 
 function durationOf(input: { time?: string, endTime?: string, durationMinutes?: number }, fallback?: number): number | undefined {
   if (input.durationMinutes !== undefined) return input.durationMinutes
-  if (input.endTime !== undefined && input.time !== undefined) {
-    const m = (s: string) => Number(s.slice(0, 2)) * 60 + Number(s.slice(3))
-    return m(input.endTime) - m(input.time)
-  }
+  if (input.endTime !== undefined && input.time !== undefined) return clockMinutes(input.endTime) - clockMinutes(input.time)
   return fallback
 }
 
@@ -262,9 +261,6 @@ export async function moveFutureAppointments(tx: Tx, clientId: string, trainerId
 // ---------------------------------------------------------------------------------------------------------------
 // E-mails
 
-function whenText(startsAt: Date, zone: string) {
-  return new Intl.DateTimeFormat('en-GB', { weekday: 'long', day: 'numeric', month: 'long', hour: '2-digit', minute: '2-digit', timeZone: zone, timeZoneName: 'short' }).format(startsAt)
-}
 
 /** The household's notice of a booking, a change or a cancellation, with the visit attached as an .ics file. */
 async function queueAppointmentNotice(tx: Tx, client: ClientRow, appointmentId: string, what: 'booked' | 'changed' | 'cancelled', visits: number, reason?: string | null) {
@@ -279,10 +275,10 @@ async function queueAppointmentNotice(tx: Tx, client: ClientRow, appointmentId: 
     await queueEmail(tx, {
       to: r.email,
       ...composeEmail({
-        subject: `${APPOINTMENT_KIND_LABELS[a.kind]} ${verb}: ${whenText(a.startsAt, a.timeZone)}`,
+        subject: `${APPOINTMENT_KIND_LABELS[a.kind]} ${verb}: ${visitWhenText(a.startsAt, a.timeZone)}`,
         greeting: `Hello ${r.name},`,
         paragraphs: [
-          `${APPOINTMENT_KIND_LABELS[a.kind]} with ${a.trainerName}${a.dogName ? ` for ${a.dogName}` : ''} ${verb}: ${whenText(a.startsAt, a.timeZone)}${a.place && what !== 'cancelled' ? `, ${a.place}` : ''}${series}.`,
+          `${APPOINTMENT_KIND_LABELS[a.kind]} with ${a.trainerName}${a.dogName ? ` for ${a.dogName}` : ''} ${verb}: ${visitWhenText(a.startsAt, a.timeZone)}${a.place && what !== 'cancelled' ? `, ${a.place}` : ''}${series}.`,
           ...(reason ? [`Reason: ${reason}`] : []),
           ...(a.householdNotes && what !== 'cancelled' ? [`Notes from your trainer: ${a.householdNotes}`] : []),
           what === 'cancelled' ? 'The attached calendar file removes it from your phone\'s calendar.' : 'Open the attached calendar file to add it to your phone\'s calendar.',

@@ -7,15 +7,13 @@ import type { ReminderPreferencesInput } from '../../shared/schemas/schedule'
 import type { WorkingDayPolicy } from '../../shared/schemas/settings-working-day'
 import { REMINDER_KINDS_FOR, REMINDER_KIND_LABELS, reminderEnabled, type ReminderKind } from '../../shared/utils/reminders'
 import type { AuthUser } from '../utils/authz'
-import { APPOINTMENT_KIND_LABELS, addDays } from '../../shared/utils/schedule'
+import { APPOINTMENT_KIND_LABELS, visitWhenText } from '../../shared/utils/schedule'
+import { addDays } from '../../shared/utils/invoices'
 import { dayInZone } from '../../shared/utils/homework'
 import { formatMoney } from '../../shared/utils/money'
 
 export interface ReminderRun { appointments: number, homework: number, samples: number, invoices: number }
 
-function whenText(startsAt: Date, zone: string) {
-  return new Intl.DateTimeFormat('en-GB', { weekday: 'long', day: 'numeric', month: 'long', hour: '2-digit', minute: '2-digit', timeZone: zone, timeZoneName: 'short' }).format(startsAt)
-}
 
 export async function runReminders(now = new Date()): Promise<ReminderRun> {
   const db = useDb()
@@ -34,10 +32,10 @@ export async function runReminders(now = new Date()): Promise<ReminderRun> {
             // The start is in the key: a visit moved after its reminder is reminded again at its new time.
             dedupeKey: `appointment-reminder:${a.id}:${a.startsAt.getTime()}:${r.id}`,
             ...composeEmail({
-              subject: `Reminder: ${APPOINTMENT_KIND_LABELS[a.kind]} ${whenText(a.startsAt, a.timeZone)}`,
+              subject: `Reminder: ${APPOINTMENT_KIND_LABELS[a.kind]} ${visitWhenText(a.startsAt, a.timeZone)}`,
               greeting: `Hello ${r.name},`,
               paragraphs: [
-                `A reminder of your ${APPOINTMENT_KIND_LABELS[a.kind].toLowerCase()} with ${a.trainerName}${a.dogName ? ` for ${a.dogName}` : ''}: ${whenText(a.startsAt, a.timeZone)}${a.place ? `, ${a.place}` : ''}.`,
+                `A reminder of your ${APPOINTMENT_KIND_LABELS[a.kind].toLowerCase()} with ${a.trainerName}${a.dogName ? ` for ${a.dogName}` : ''}: ${visitWhenText(a.startsAt, a.timeZone)}${a.place ? `, ${a.place}` : ''}.`,
                 ...(a.householdNotes ? [`Notes from your trainer: ${a.householdNotes}`] : []),
                 'Open the attached calendar file to add it to your phone\'s calendar. If you cannot make it, write to your trainer in Forescent.',
               ],

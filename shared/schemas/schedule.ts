@@ -1,6 +1,6 @@
 // Forms and routes of the working day: appointments, the calendar's range, messages and reminder choices.
 import { z } from 'zod'
-import { APPOINTMENT_KINDS, MAX_DURATION_MINUTES, MAX_SERIES_EVERY_WEEKS, MIN_DURATION_MINUTES } from '../utils/schedule'
+import { APPOINTMENT_KINDS, MAX_DURATION_MINUTES, MAX_SERIES_EVERY_WEEKS, MIN_DURATION_MINUTES, clockMinutes } from '../utils/schedule'
 import { REMINDER_KINDS } from '../utils/reminders'
 import { id, isoDate, optionalText } from './common'
 
@@ -33,8 +33,7 @@ function checkTiming(v: { time?: string, endTime?: string, durationMinutes?: num
     ctx.addIssue({ code: 'custom', path: ['endTime'], message: 'Enter when the appointment ends.' })
   }
   if (v.endTime !== undefined && v.time !== undefined) {
-    const minutes = (s: string) => Number(s.slice(0, 2)) * 60 + Number(s.slice(3))
-    const length = minutes(v.endTime) - minutes(v.time)
+    const length = clockMinutes(v.endTime) - clockMinutes(v.time)
     if (length <= 0) ctx.addIssue({ code: 'custom', path: ['endTime'], message: `The end (${v.endTime}) must be after the start (${v.time}).` })
     else if (length < MIN_DURATION_MINUTES) ctx.addIssue({ code: 'custom', path: ['endTime'], message: `An appointment lasts at least ${MIN_DURATION_MINUTES} minutes.` })
   }

@@ -2,6 +2,8 @@
 // (RFC 5545 recurrence rules expanded with the rrule library), overlaps and day/week ranges. No I/O.
 import { TZDate } from '@date-fns/tz'
 import * as rrulePackage from 'rrule'
+import { daysBetween } from './homework'
+import { addDays } from './invoices'
 
 // rrule ships CommonJS for Node and ES modules for bundlers: take RRule from whichever shape this import has.
 const RRule = ((rrulePackage as unknown as { RRule?: typeof rrulePackage.RRule }).RRule
@@ -55,17 +57,6 @@ export function instantOfWallTime(date: string, time: string, timeZone: string):
   const back = wallTimeOf(t.getTime(), timeZone)
   if (back.date !== date || back.time !== time) return null
   return new Date(t.getTime())
-}
-
-/** Adds whole days to a calendar date (no time zone involved). */
-export function addDays(date: string, days: number): string {
-  const { y, m, d } = parts(date)
-  return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10)
-}
-
-/** Days from `a` to `b` (calendar dates). */
-export function daysBetween(a: string, b: string): number {
-  return Math.round((Date.parse(`${b}T00:00:00Z`) - Date.parse(`${a}T00:00:00Z`)) / DAY)
 }
 
 /** [start, end) of a calendar day in a time zone (23 or 25 hours long on the days the clocks change). */
@@ -141,6 +132,16 @@ export function planSeries(start: WallTime, timeZone: string, repeat: RepeatInpu
   }
   const rrule = new RRule({ freq: RRule.WEEKLY, interval: repeat.everyWeeks, count: occurrences.length }).toString().replace(/^RRULE:/, '')
   return { plan: { rrule, occurrences }, problems: {} }
+}
+
+/** "09:30" → 570, minutes since midnight of a wall-clock time. */
+export function clockMinutes(time: string): number {
+  return Number(time.slice(0, 2)) * 60 + Number(time.slice(3, 5))
+}
+
+/** "Thursday 3 December, 10:00 GMT": a visit's start in e-mails (the zone always named). */
+export function visitWhenText(startsAt: Date, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-GB', { weekday: 'long', day: 'numeric', month: 'long', hour: '2-digit', minute: '2-digit', timeZone, timeZoneName: 'short' }).format(startsAt)
 }
 
 /** True when [aStart, aStart+aMinutes) and [bStart, bStart+bMinutes) share a minute. */

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { addDays, dayHeading, dayRange, instantOfWallTime, mondayOf, overlaps, planSeries, visitTimeText, wallTimeOf, zoneDiffers } from '../../shared/utils/schedule'
+import { addDays } from '../../shared/utils/invoices'
+import { dayHeading, dayRange, instantOfWallTime, mondayOf, overlaps, planSeries, visitTimeText, wallTimeOf, zoneDiffers } from '../../shared/utils/schedule'
 import { appointmentReminderDue, messageNoticeDue, reminderEnabled } from '../../shared/utils/reminders'
 import { appointmentCreateSchema } from '../../shared/schemas/schedule'
 

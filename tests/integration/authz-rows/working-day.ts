@@ -1,7 +1,8 @@
 import { CLIENT_A } from '../../support/people'
 import { tinyPng } from '../../support/files'
 import { seedId } from '../../../scripts/lib/seed-data'
-import { addDays, mondayOf, wallTimeOf } from '../../../shared/utils/schedule'
+import { addDays } from '../../../shared/utils/invoices'
+import { mondayOf, wallTimeOf } from '../../../shared/utils/schedule'
 import { clientA, expect, signedIn, adminOnly, everyone, type Row } from '../../support/authz'
 import type { Agent } from '../../support/http'
 
