@@ -1,7 +1,7 @@
 // "What needs me now": the first screen of each role. Every list is computed for the person's own households only,
 // with one query per kind (the roster's providers reused for the trainer), and each item carries where to act.
-import { and, asc, count, eq, gte, isNull, lt, max, notInArray, sql } from 'drizzle-orm'
-import { appointments, auditLog, clients, diaryEntries, dogs, homeworkAssignments, homeworkVideos, invitations, invoicePayments, invoices, users } from '../database/schema'
+import { and, asc, count, eq, gte, isNull, lt, notInArray, sql } from 'drizzle-orm'
+import { appointments, auditLog, clients, diaryEntries, dogs, homeworkAssignments, homeworkVideos, invitations, invoicePayments, invoices, messages, trainingSessions, users } from '../database/schema'
 import { REMINDER_POLICY_DEFAULTS, REMINDER_POLICY_KEY, reminderPolicySchema } from '../../shared/schemas/settings-invoices'
 import { dayRange, wallTimeOf } from '../../shared/utils/schedule'
 import { dayInZone } from '../../shared/utils/homework'
@@ -62,8 +62,14 @@ export async function officeToday(user: AuthUser) {
   const { zone, today, from, to } = await todayBounds()
   const policy = await readWorkingDayPolicy(db)
   const quietSince = new Date(Date.now() - policy.quietClientDays * 86_400_000)
-  const lastTrainerAction = db.select({ clientId: auditLog.clientId, at: max(auditLog.createdAt).as('at') }).from(auditLog)
-    .innerJoin(clients, and(eq(clients.id, auditLog.clientId), eq(clients.trainerId, auditLog.actorId))).groupBy(auditLog.clientId).as('last_action')
+  // The trainer's last work with a household: an audited action, a training session, a message they wrote, or a
+  // visit that has taken place (the demo's history has sessions and visits but few audit rows).
+  const lastTrainerAction = sql<number | null>`(select max(at) from (
+    select max(${auditLog.createdAt}) as at from ${auditLog} where ${auditLog.clientId} = ${clients.id} and ${auditLog.actorId} = ${clients.trainerId}
+    union all select max(${trainingSessions.createdAt}) from ${trainingSessions} where ${trainingSessions.clientId} = ${clients.id}
+    union all select max(${messages.createdAt}) from ${messages} where ${messages.clientId} = ${clients.id} and ${messages.authorId} = ${clients.trainerId}
+    union all select max(${appointments.startsAt}) from ${appointments} where ${appointments.clientId} = ${clients.id} and ${appointments.status} = 'scheduled' and ${appointments.startsAt} <= ${Date.now()}
+  ))`
   const [overdue, paidToday, pending, quiet, trainers, visits, unread] = await Promise.all([
     db.select({ id: invoices.id, number: invoices.number, clientId: invoices.clientId, householdName: clients.householdName, dueDate: invoices.dueDate, grossMinor: invoices.grossMinor, paidMinor: invoices.paidMinor, currency: invoices.currency, remindersSent: invoices.remindersSent, lastRemindedAt: invoices.lastRemindedAt })
       .from(invoices).innerJoin(clients, eq(clients.id, invoices.clientId))
@@ -74,10 +80,10 @@ export async function officeToday(user: AuthUser) {
     db.select({ id: invitations.id, name: invitations.name, email: invitations.email, role: invitations.role, clientId: invitations.clientId, householdName: clients.householdName, expiresAt: invitations.expiresAt, createdAt: invitations.createdAt })
       .from(invitations).leftJoin(clients, eq(clients.id, invitations.clientId))
       .where(and(isNull(invitations.acceptedAt), isNull(invitations.revokedAt))).orderBy(asc(invitations.createdAt)).limit(50),
-    db.select({ id: clients.id, householdName: clients.householdName, trainerName: users.name, lastAt: lastTrainerAction.at })
-      .from(clients).innerJoin(users, eq(users.id, clients.trainerId)).leftJoin(lastTrainerAction, eq(lastTrainerAction.clientId, clients.id))
-      .where(and(notInArray(clients.status, ['closed']), sql`coalesce(${lastTrainerAction.at}, ${clients.createdAt}) < ${quietSince.getTime()}`))
-      .orderBy(asc(sql`coalesce(${lastTrainerAction.at}, ${clients.createdAt})`)).limit(50),
+    db.select({ id: clients.id, householdName: clients.householdName, trainerName: users.name, lastAt: lastTrainerAction })
+      .from(clients).innerJoin(users, eq(users.id, clients.trainerId))
+      .where(and(notInArray(clients.status, ['closed']), sql`coalesce(${lastTrainerAction}, ${clients.createdAt}) < ${quietSince.getTime()}`))
+      .orderBy(asc(sql`coalesce(${lastTrainerAction}, ${clients.createdAt})`)).limit(50),
     db.select({ id: users.id, name: users.name }).from(users).where(and(eq(users.role, 'trainer'), isNull(users.disabledAt))).orderBy(asc(users.name)),
     appointmentQuery(db).where(and(gte(appointments.startsAt, from), lt(appointments.startsAt, to), eq(appointments.status, 'scheduled'))).orderBy(asc(appointments.startsAt)),
     unreadConversations(user),
