@@ -59,7 +59,12 @@ test('the trainer opens Juniper from the Fairweather file, records a health reco
   await assess.getByRole('button', { name: 'Save the assessment' }).click()
   await expect(assess.getByText('Score scent drive from 1 to 5.')).toBeVisible()
   for (const [trait, score] of [['Scent drive', 5], ['Focus', 4], ['Environmental confidence', 4], ['Sociability', 2], ['Recovery from startle', 4], ['Handler engagement', 5]] as const) {
-    await assess.getByLabel(`${trait}: ${score},`).check({ force: true })
+    // The radios are visually hidden behind their numbered labels: choose each by keyboard, as a keyboard user would
+    // (a forced click lands on the 1-pixel input's position and can miss it on a slow machine).
+    const radio = assess.getByLabel(`${trait}: ${score},`)
+    await radio.focus()
+    await radio.press('Space')
+    await expect(radio).toBeChecked()
   }
   await expect(assess.getByTestId('assessment-summary')).toContainText('Average 4 of 5')
   await expect(assess.getByTestId('assessment-summary')).toContainText('Below 3: Sociability')

@@ -37,5 +37,5 @@ test('a trainer sets up a second factor and then signs in with a code from the a
   await codeField.fill(totpCode(secret, Date.now() + 30_000))
   await page.getByRole('button', { name: 'Sign in' }).click()
   await expect(page).toHaveURL(/\/trainer/)
-  await expect(page.getByRole('heading', { level: 1 })).toContainText('Your roster')
+  await expect(page.getByRole('heading', { level: 1 })).toContainText('Today')
 })
