@@ -1,8 +1,9 @@
 // Every request gets an id, sent back in X-Request-Id and written on each of its log lines; one access line per API
 // call and page (method, path, status, duration, who) when it is answered; refused requests (401, 403) are logged as
-// security events; every 5xx is logged with its stack and the request id, which the person can quote to the office.
+// security events; every 5xx is logged with its stack and the request id, which the person can quote to the office:
+// a JSON answer of 500 or more carries the id in its body too ({ statusCode, message, requestId }), never a stack.
 import { randomUUID } from 'node:crypto'
-import type { H3Event } from 'h3'
+import { eventHandler, type H3Error, type H3Event } from 'h3'
 import { requestAddress } from '../utils/throttle'
 
 // An id handed in by our own proxy is kept (so one id follows the request across hops) only behind TRUST_PROXY.
@@ -38,4 +39,40 @@ export default defineNitroPlugin((nitro) => {
     if (status >= 500) logEvent('http.error', { status, err: { name: error.name, message: error.message, stack: error.stack } }, 'error', event)
     if (event) logAnswer(event, status)
   })
+
+  // JSON 5xx answers are written here, before Nitro's own error handler (which has no place for the id): h3 reads
+  // onError when an error happens, so wrapping it covers every route, middleware and handler.
+  const answerError = nitro.h3App.options.onError!
+  nitro.h3App.options.onError = (error: H3Error, event: H3Event) => {
+    const status = error.statusCode || 500
+    if (status < 500 || event.handled || !wantsJson(event)) return answerError(error, event)
+    nitro.captureError(error, { event, tags: ['request'] })
+    // An unhandled error's own message may name internals: only errors we raised on purpose keep theirs.
+    const sensitive = error.unhandled || error.fatal
+    const statusMessage = sensitive ? 'Server Error' : (error.statusMessage || 'Server Error')
+    setResponseStatus(event, status, statusMessage)
+    setResponseHeaders(event, { 'content-type': 'application/json', 'x-content-type-options': 'nosniff', 'cache-control': 'no-store' })
+    return send(event, JSON.stringify({
+      error: true,
+      statusCode: status,
+      statusMessage,
+      message: sensitive ? 'Server Error' : error.message,
+      requestId: event.context.requestId,
+    }))
+  }
+
+  // A route that fails on purpose, for the integration tests only: it is registered when TEST_FAULTS=1 (set by
+  // tests/support/stack.ts) and does not exist otherwise. Outside /api, so the authorization matrix does not see it.
+  if (process.env.TEST_FAULTS === '1') {
+    nitro.router.get('/__test/fault', eventHandler(() => {
+      throw new Error('deliberate test fault: internal detail that must not reach the answer')
+    }))
+  }
 })
+
+/** As Nuxt decides it for its error page: API paths and requests asking for JSON rather than a page. */
+function wantsJson(event: H3Event) {
+  const accept = String(getRequestHeader(event, 'accept') || '').toLowerCase()
+  if (accept.includes('text/html')) return false
+  return event.path.startsWith('/api/') || accept.includes('application/json')
+}

@@ -239,6 +239,22 @@ describe('security log (ASVS V7.1.x, V7.2.x)', () => {
   })
 })
 
+describe('a 5xx answer carries its request id (ASVS V7.4.1)', () => {
+  it('the body of a JSON 500 has the id of the X-Request-Id header and of the error log line, and no stack or internals', async () => {
+    const res = await rawRequest({ method: 'GET', path: '/__test/fault', headers: { accept: 'application/json' } })
+    expect(res.status).toBe(500)
+    const id = res.headers['x-request-id'] as string
+    expect(id).toMatch(/^[0-9a-f-]{36}$/)
+    const body = JSON.parse(res.body)
+    expect(body).toMatchObject({ statusCode: 500, message: 'Server Error', requestId: id })
+    expect(res.body).not.toContain('deliberate test fault')
+    expect(res.body).not.toMatch(/\bat .*\.(m?js|ts):\d+/)
+    const line = await logLineFor(id, 'http.error')
+    expect(line).toMatchObject({ level: 'error', status: 500 })
+    expect(line.err.message).toContain('deliberate test fault')
+  })
+})
+
 describe('forgot-password does the same work for every e-mail (ASVS V2.5.x, V3.x: no account enumeration)', () => {
   it('answers an existing and an unknown e-mail equally fast (medians within 15 ms; before: 63 ms against 14 ms)', async () => {
     const times: Record<'known' | 'unknown', number[]> = { known: [], unknown: [] }

@@ -110,6 +110,8 @@ export async function startStack(opts: { label?: string, env?: Record<string, st
       INVOICE_SCHEDULE: 'off',
       // Reminder e-mails are driven by their route (POST /api/reminders/run) in the tests, so runs are deterministic.
       REMINDERS: 'off',
+      // Registers /__test/fault, a route that fails with a 500 (server/plugins/request-context.ts); never in production.
+      TEST_FAULTS: '1',
       ...opts.env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
