@@ -4,11 +4,14 @@
 // and error format the stripe SDK expects (from memory of Stripe's public API reference):
 //   POST /v1/checkout/sessions        create (Idempotency-Key honoured: the same key returns the same session)
 //   GET  /v1/checkout/sessions/:id    retrieve
+//   POST /v1/checkout/sessions/:id/expire  expire an open session (its page then refuses to take a card)
 // It serves our own simple hosted payment page at /pay/:id with a test card form, and delivers webhook events to the
 // app signed the way Stripe signs them: header `Stripe-Signature: t=<unix seconds>,v1=<hex HMAC-SHA256 of "t.body">`.
 // Test cards (our own choice of numbers, following Stripe's documented test-card idea):
 //   4242 4242 4242 4242  succeeds      4000 0000 0000 0002  declined      4000 0000 0000 3220  asks for a second step
-// Helper endpoints for tests: GET /_fake/events, POST /_fake/events/:id/resend[?age=seconds], POST /_fake/down (toggle 503s).
+// Helper endpoints for tests: GET /_fake/events, POST /_fake/events/:id/resend[?age=seconds] (a negative age signs it
+// in the future), POST /_fake/down (toggle 503s), POST /_fake/sessions/:id/complete with JSON { currency, amount_total, metadata }
+// (pays a session as if the provider had charged another currency or amount: a signed event the app must not trust blindly).
 //
 // Run: node fake-services/stripe/server.mjs  (env FAKE_STRIPE_PORT, FAKE_STRIPE_WEBHOOK_URL, STRIPE_WEBHOOK_SECRET)
 
@@ -117,6 +120,15 @@ export async function startFakeStripe(opts = {}) {
     if (state.down) return stripeError(res, 503, 'The fake Stripe service is switched off.', undefined, 'api_error')
     const auth = req.headers.authorization ?? ''
     if (!/^Bearer sk_(test|live)_\w+/.test(auth)) return stripeError(res, 401, 'Invalid API Key provided.', undefined, 'invalid_request_error')
+    const ex = url.pathname.match(/^\/v1\/checkout\/sessions\/([\w]+)\/expire$/)
+    if (ex && req.method === 'POST') {
+      const s = state.sessions.get(ex[1])
+      if (!s) return stripeError(res, 404, `No such checkout.session: '${ex[1]}'`, 'id')
+      if (s.status !== 'open') return stripeError(res, 400, `Only Checkout Sessions with a status in ["open"] can be expired. This Checkout Session has a status of "${s.status}".`)
+      s.status = 'expired'
+      emit('checkout.session.expired', { ...s })
+      return json(res, 200, s)
+    }
     const m = url.pathname.match(/^\/v1\/checkout\/sessions(?:\/([\w]+))?$/)
     if (!m) return stripeError(res, 404, `Unrecognized request URL (${req.method}: ${url.pathname}).`)
     if (req.method === 'GET' && m[1]) {
@@ -177,6 +189,7 @@ ${s.cancel_url ? `<p><a href="${escapeHtml(s.cancel_url)}">Cancel and go back</a
     const id = url.pathname.split('/')[2] ?? ''
     const s = state.sessions.get(id)
     if (!s) { res.writeHead(404, { 'content-type': 'text/html' }); return res.end(page('Not found', '<h1>This payment link is not known.</h1>')) }
+    if (s.status === 'expired') { res.writeHead(410, { 'content-type': 'text/html' }); return res.end(page('Expired', '<h1>This payment link has expired.</h1><p>Go back and start the payment again.</p>')) }
     if (s.status === 'complete') { res.writeHead(303, { location: s.success_url.replace('{CHECKOUT_SESSION_ID}', s.id) }); return res.end() }
     if (req.method === 'GET') { res.writeHead(200, { 'content-type': 'text/html' }); return res.end(payPage(s)) }
     const form = new URLSearchParams(await readBody(req))
@@ -199,6 +212,15 @@ ${s.cancel_url ? `<p><a href="${escapeHtml(s.cancel_url)}">Cancel and go back</a
       // ?age=600 signs the delivery as if sent 600 s ago (a stale event the app must refuse).
       await deliver(evt, 5, Number(url.searchParams.get('age') ?? 0))
       return json(res, 200, { id: evt.id, status: evt.deliveries.at(-1)?.status ?? 0 })
+    }
+    const done = url.pathname.match(/^\/_fake\/sessions\/([\w]+)\/complete$/)
+    if (req.method === 'POST' && done) {
+      const s = state.sessions.get(done[1])
+      if (!s || s.status !== 'open') return json(res, 404, { error: 'no open session' })
+      const overrides = JSON.parse((await readBody(req)) || '{}')
+      Object.assign(s, overrides.currency ? { currency: String(overrides.currency) } : {}, Number.isSafeInteger(overrides.amount_total) ? { amount_total: overrides.amount_total } : {}, overrides.metadata ? { metadata: { ...s.metadata, ...overrides.metadata } } : {})
+      complete(s)
+      return json(res, 200, s)
     }
     if (req.method === 'POST' && url.pathname === '/_fake/down') { state.down = !state.down; return json(res, 200, { down: state.down }) }
     return json(res, 404, { error: 'not found' })

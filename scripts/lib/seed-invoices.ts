@@ -2,20 +2,34 @@
 // some paid by bank transfer, one open and current, one overdue, one draft. Numbers run per year without gaps.
 // The default programme template has a fee schedule (deposit + 6 monthly instalments); the Fairweather and
 // Achterberg invoices belong to its plan, with the instalments still to come waiting as scheduled drafts.
+import { eq } from 'drizzle-orm'
 import type { Database } from '../../server/database/client'
 import * as s from '../../server/database/schema'
 import { lineTotals } from '../../shared/utils/money'
 import { formatInvoiceNumber } from '../../shared/utils/invoices'
 import { addMonths, buildFeePlan, type FeeScheduleInput } from '../../shared/utils/fee-plan'
+import { billingParty, freezeInvoice, receiptNumberFor } from '../../shared/utils/invoice-document'
+import { BUSINESS_IDENTITY_KEY, type BusinessIdentity } from '../../shared/schemas/settings-identity'
+import { INVOICE_POLICY_DEFAULTS } from '../../shared/schemas/settings-invoices'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
 
 /** The invoice tables, children before clients, for the seed's delete list. */
-export const INVOICE_TABLES_CHILD_FIRST = ['stripe_events', 'invoice_payments', 'invoice_lines', 'invoices', 'invoice_counters', 'fee_schedules'] as const
+export const INVOICE_TABLES_CHILD_FIRST = ['stripe_events', 'payment_problems', 'invoice_refunds', 'business_logos', 'invoice_payments', 'invoice_lines', 'invoices', 'invoice_counters', 'fee_schedules'] as const
 
 const DAY = 86_400_000
 // 20 %: the UK standard rate of VAT (GOV.UK, "VAT rates", from memory); the demo business is UK-registered.
 const UK_STANDARD_VAT_BP = 2000
+
+// The invented business's identity as its invoices print it. The IBAN is the example IBAN printed in the IBAN
+// standard's documentation (ISO 13616, from memory): it passes the checksum and belongs to no real account here.
+export const DEMO_IDENTITY: BusinessIdentity = {
+  legalName: 'Larkspur Scent Partners Ltd', tradingName: 'Larkspur Scent Partners', addressLine1: '4 Orchard Yard', addressLine2: 'Millbrook Lane',
+  town: 'Ashcombe', postcode: 'AC4 9LR', country: 'GB', vatNumber: 'GB 000 1111 22', companyNumber: '00011122',
+  iban: 'GB82WEST12345698765432', bic: 'LARKGB21', bankAccountText: 'Sort code 00-11-22, account 00011122',
+  paymentTerms: 'Payment within 14 days of the date of issue, by card online or by bank transfer.',
+  email: 'office@larkspur.example', phone: '01632 960 123', // 01632 960xxx: a UK range kept for drama (Ofcom, from memory)
+}
 
 interface DemoInvoice {
   key: string
@@ -51,6 +65,10 @@ export const DEFAULT_FEE_SCHEDULE: FeeScheduleInput = {
 export async function seedInvoices(tx: Tx, today: Date, seedId: (name: string) => string) {
   const scheduleId = seedId('fee-schedule:default')
   await tx.insert(s.feeSchedules).values({ id: scheduleId, templateId: seedId('template:default'), currency: 'GBP', ...DEFAULT_FEE_SCHEDULE, lines: [...DEFAULT_FEE_SCHEDULE.lines], updatedById: seedId('user:admin') })
+  await tx.insert(s.businessSettings).values([
+    { key: 'business', value: { name: 'Larkspur Scent Partners', timeZone: 'Europe/London', locale: 'en-GB', currency: 'GBP' } },
+    { key: BUSINESS_IDENTITY_KEY, value: { ...DEMO_IDENTITY } },
+  ])
   const seqByYear = new Map<number, number>()
   const ordered = [...DEMO].sort((a, b) => (b.issuedDaysAgo ?? -1) - (a.issuedDaysAgo ?? -1))
   for (const inv of ordered) {
@@ -76,9 +94,23 @@ export async function seedInvoices(tx: Tx, today: Date, seedId: (name: string) =
       createdAt: issued ?? today, updatedAt: paid ?? issued ?? today,
     })
     await tx.insert(s.invoiceLines).values(inv.lines.map((l, i) => ({ invoiceId: id, position: i + 1, ...l, ...totals[i]! })))
+    if (issued && number) {
+      // Frozen as issued, like every invoice the app issues.
+      const [client] = await tx.select().from(s.clients).where(eq(s.clients.id, seedId(`client:${inv.client}`)))
+      const issueDate = isoDay(issued)
+      const frozen = freezeInvoice({
+        kind: 'invoice', number, issueDate, dueDate: isoDay(new Date(issued.getTime() + inv.dueInDays * DAY)), currency: 'GBP', locale: 'en-GB',
+        seller: { name: DEMO_IDENTITY.legalName, tradingName: DEMO_IDENTITY.tradingName, address: [DEMO_IDENTITY.addressLine1, DEMO_IDENTITY.addressLine2, DEMO_IDENTITY.town, DEMO_IDENTITY.postcode], country: 'GB', vatNumber: DEMO_IDENTITY.vatNumber, companyNumber: DEMO_IDENTITY.companyNumber, email: DEMO_IDENTITY.email, phone: DEMO_IDENTITY.phone, logoId: null },
+        buyer: billingParty(client!, 'GB'),
+        lines: inv.lines.map((l, i) => ({ ...l, ...totals[i]! })),
+        payment: { terms: DEMO_IDENTITY.paymentTerms, iban: DEMO_IDENTITY.iban, bic: DEMO_IDENTITY.bic, bankAccountText: DEMO_IDENTITY.bankAccountText, reference: number },
+        footer: INVOICE_POLICY_DEFAULTS.footer, notes: null, corrects: null,
+      })
+      await tx.update(s.invoices).set({ frozen }).where(eq(s.invoices.id, id))
+    }
     if (paid) {
       await tx.insert(s.invoicePayments).values({
-        invoiceId: id, amountMinor: sum('grossMinor'), method: 'bank_transfer', reference: `Transfer ${number}`,
+        invoiceId: id, amountMinor: sum('grossMinor'), method: 'bank_transfer', reference: `Transfer ${number}`, receiptNumber: receiptNumberFor(number!, 1),
         receivedOn: isoDay(paid), recordedById: seedId('user:admin'), createdAt: paid, updatedAt: paid,
       })
     }

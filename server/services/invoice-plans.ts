@@ -4,7 +4,7 @@ import { and, asc, eq, gte, lte, sql } from 'drizzle-orm'
 import { clients, feeSchedules, invoiceLines, invoicePayments, invoices, programmeTemplates } from '../database/schema'
 import type { FeeScheduleInput } from '../../shared/schemas/fee-schedules'
 import { REMINDER_POLICY_DEFAULTS, REMINDER_POLICY_KEY, reminderPolicySchema } from '../../shared/schemas/settings-invoices'
-import { buildFeePlan, lastMonths, reminderNumberDue, revenueByMonth } from '../../shared/utils/fee-plan'
+import { buildFeePlan, lastMonths, nextReminderDue, revenueByMonth } from '../../shared/utils/fee-plan'
 import { addDays, balanceDue, daysOverdue, invoiceTotalsForIssue } from '../../shared/utils/invoices'
 import { formatMoney, lineTotals } from '../../shared/utils/money'
 import { todayInTimeZone } from '../../shared/utils/dogs'
@@ -129,13 +129,24 @@ async function issueScheduledDrafts(today: string, limit: number) {
     .where(and(eq(invoices.status, 'draft'), lte(invoices.scheduledIssueOn, today))).orderBy(asc(invoices.scheduledIssueOn), asc(invoices.createdAt)).limit(limit)
   let issued = 0
   for (const r of due) {
-    const row = await db.transaction(tx => issueDraftInTx(tx, null, r.invoice.id, r.client, business))
-    if (row) issued++
+    try {
+      const row = await db.transaction(tx => issueDraftInTx(tx, null, r.invoice.id, r.client, business))
+      if (row) issued++
+    }
+    catch (err) {
+      // The business identity is incomplete (or another refusal): the draft waits for the next run; nothing is written.
+      logFailure('invoices.scheduled-issue', 'A scheduled instalment could not be issued.', err)
+      if ((err as { statusCode?: number }).statusCode === 422) break
+    }
   }
   return issued
 }
 
-/** Overdue reminders: for each open invoice, the reminder of the current policy interval, once (guarded and deduplicated). */
+/**
+ * Overdue reminders, oldest debt first: each open invoice gets the next reminder it has not had once its day has come
+ * and an interval has passed since the last (`nextReminderDue`), up to the policy's maximum; each once (guarded and
+ * deduplicated).
+ */
 async function sendOverdueReminders(today: string, limit: number) {
   const db = useDb()
   const [{ business }, policy] = await Promise.all([
@@ -149,8 +160,12 @@ async function sendOverdueReminders(today: string, limit: number) {
     .orderBy(asc(invoices.dueDate)).limit(limit)
   let reminded = 0
   for (const { invoice, client } of rows) {
-    const k = reminderNumberDue(daysOverdue(invoice.dueDate!, today), policy)
-    if (k === null || k <= invoice.remindersSent) continue
+    const k = nextReminderDue({
+      daysOverdue: daysOverdue(invoice.dueDate!, today),
+      remindersSent: invoice.remindersSent,
+      daysSinceLastReminder: invoice.lastRemindedAt ? daysOverdue(todayInTimeZone(business.timeZone, invoice.lastRemindedAt), today) : null,
+    }, policy)
+    if (k === null) continue
     const owed = balanceDue(invoice.grossMinor, invoice.paidMinor)
     if (owed < 1) continue
     const done = await db.transaction(async (tx) => {

@@ -2,13 +2,16 @@
 // each change in one transaction with its audit entry and its e-mail (outbox).
 import type { H3Event } from 'h3'
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm'
-import { clients, invoiceCounters, invoiceLines, invoicePayments, invoices, users } from '../database/schema'
+import { clients, invoiceCounters, invoiceLines, invoicePayments, invoiceRefunds, invoices, users } from '../database/schema'
 import type { InvoiceCreateInput, ManualPaymentInput } from '../../shared/schemas/invoices'
 import { businessProfile, businessProfileSchema, type BusinessProfile } from '../../shared/schemas/settings-business'
 import { INVOICE_POLICY_DEFAULTS, INVOICE_POLICY_KEY, invoicePolicySchema, type InvoicePolicy } from '../../shared/schemas/settings-invoices'
 import { formatMoney, lineTotals, minorUnits } from '../../shared/utils/money'
+import { billingParty, freezeInvoice, receiptNumberFor, type FrozenInvoice } from '../../shared/utils/invoice-document'
+import type { ReceiptDocument } from './invoice-pdf'
+import { BUSINESS_IDENTITY_DEFAULTS, BUSINESS_IDENTITY_KEY, BUSINESS_LOGO_KEY, businessIdentitySchema, businessLogoSchema, missingIdentity, type BusinessIdentity } from '../../shared/schemas/settings-identity'
 import {
-  addDays, balanceDue, canCredit, canIssue, canVoid, creditLines, formatInvoiceNumber, invoiceTotalsForIssue, shownState,
+  addDays, balanceDue, refundDue, canCredit, canIssue, canVoid, creditLines, formatInvoiceNumber, invoiceTotalsForIssue, shownState,
   type StoredLine,
 } from '../../shared/utils/invoices'
 import { todayInTimeZone } from '../../shared/utils/dogs'
@@ -24,6 +27,80 @@ export async function readInvoiceSettings(db: DbOrTx = useDb()): Promise<{ busin
     readSetting(INVOICE_POLICY_KEY, invoicePolicySchema, INVOICE_POLICY_DEFAULTS, db),
   ])
   return { business, policy }
+}
+
+export function readIdentity(db: DbOrTx = useDb()): Promise<BusinessIdentity> {
+  return readSetting(BUSINESS_IDENTITY_KEY, businessIdentitySchema, BUSINESS_IDENTITY_DEFAULTS, db)
+}
+
+/** Refuses to issue while the seller's identity is incomplete: an invoice must say who it is from (art. 226(5)). */
+function requireCompleteIdentity(identity: BusinessIdentity) {
+  const missing = missingIdentity(identity)
+  if (missing.length) {
+    throw createError({
+      statusCode: 422, statusMessage: 'Unprocessable Content',
+      message: `Before an invoice can be issued, fill in ${missing.join(', ')} under Policies → Business identity. An invoice must say who it is from.`,
+    })
+  }
+}
+
+interface DocumentFacts {
+  kind: 'invoice' | 'credit_note', number: string, issueDate: string, dueDate: string | null, currency: string, notes: string | null
+  invoiceId: string, client: ClientRow, corrects: FrozenInvoice['corrects']
+}
+
+/** The document from the settings, the client's billing details and the stored lines of this moment. */
+async function composeDocument(db: DbOrTx, d: DocumentFacts, identity: BusinessIdentity): Promise<FrozenInvoice> {
+  const [{ business, policy }, logo, lines] = await Promise.all([
+    readInvoiceSettings(db),
+    readSetting(BUSINESS_LOGO_KEY, businessLogoSchema, { logoId: null }, db),
+    db.select().from(invoiceLines).where(eq(invoiceLines.invoiceId, d.invoiceId)).orderBy(asc(invoiceLines.position)),
+  ])
+  return freezeInvoice({
+    kind: d.kind, number: d.number, issueDate: d.issueDate, dueDate: d.dueDate, currency: d.currency, locale: business.locale,
+    seller: {
+      name: identity.legalName || business.name, tradingName: identity.tradingName || undefined,
+      address: [identity.addressLine1, identity.addressLine2, identity.town, identity.postcode].filter(Boolean), country: identity.country,
+      vatNumber: identity.vatNumber || undefined, companyNumber: identity.companyNumber || undefined,
+      email: identity.email || undefined, phone: identity.phone || undefined, logoId: logo.logoId,
+    },
+    buyer: billingParty(d.client, identity.country),
+    lines: lines.map(l => ({ description: l.description, quantity: l.quantity, unitMinor: l.unitMinor, taxRateBasisPoints: l.taxRateBasisPoints, netMinor: l.netMinor, taxMinor: l.taxMinor, grossMinor: l.grossMinor })),
+    payment: {
+      terms: identity.paymentTerms || `Payment within ${policy.paymentTermsDays} days of the date of issue.`,
+      iban: identity.iban, bic: identity.bic, bankAccountText: identity.bankAccountText, reference: d.number,
+    },
+    footer: policy.footer, notes: d.notes, corrects: d.corrects,
+  })
+}
+
+/**
+ * The document as issued, frozen: seller, buyer, lines, rates, totals and wording of this moment, stored on the
+ * invoice; its PDF is drawn from this alone. Refused while the seller's identity is incomplete.
+ */
+async function freezeDocument(tx: DbOrTx, d: DocumentFacts): Promise<FrozenInvoice> {
+  const identity = await readIdentity(tx)
+  requireCompleteIdentity(identity)
+  return composeDocument(tx, d, identity)
+}
+
+/**
+ * What the PDF of an invoice is drawn from: its frozen record once issued. A draft (the office's preview) and a
+ * document issued before records were frozen are drawn from today's settings instead.
+ */
+export async function documentOf(invoice: InvoiceRow, client: ClientRow): Promise<FrozenInvoice> {
+  if (invoice.frozen) return invoice.frozen
+  const db = useDb()
+  let corrects: FrozenInvoice['corrects'] = null
+  if (invoice.creditsInvoiceId) {
+    const [orig] = await db.select({ number: invoices.number, issueDate: invoices.issueDate }).from(invoices).where(eq(invoices.id, invoice.creditsInvoiceId)).limit(1)
+    if (orig?.number) corrects = { number: orig.number, issueDate: orig.issueDate }
+  }
+  const { business } = await readInvoiceSettings(db)
+  return composeDocument(db, {
+    kind: invoice.kind, number: invoice.number ?? 'Draft (not yet issued)', issueDate: invoice.issueDate ?? todayInTimeZone(business.timeZone),
+    dueDate: invoice.dueDate, currency: invoice.currency, notes: invoice.notes, invoiceId: invoice.id, client, corrects,
+  }, await readIdentity(db))
 }
 
 // Concurrent writes in one process are queued by the database client itself (serialiseWrites in
@@ -60,6 +137,10 @@ function present(inv: InvoiceRow, today: string, householdName?: string) {
     householdName,
     state: shownState(inv.status, inv.dueDate, today),
     balanceMinor: inv.kind === 'invoice' && inv.status === 'open' ? balanceDue(inv.grossMinor, inv.paidMinor) : 0,
+    refundDueMinor: refundDue(inv),
+    // The provider's session is the office's business, never shown to a household; the frozen record is the PDF's.
+    checkoutSessionId: undefined,
+    frozen: undefined,
   }
 }
 
@@ -109,21 +190,33 @@ export async function listUpcomingInstalments(user: AuthUser) {
 /** One invoice with its lines, payments, credit notes and what the page needs to print it. */
 export async function getInvoiceDetail(user: AuthUser, invoice: InvoiceRow, client: ClientRow) {
   const db = useDb()
-  const [{ business, policy }, lines, payments, credits] = await Promise.all([
-    readInvoiceSettings(db),
+  const [{ business, policy }, identity, lines, payments, credits, refunds] = await Promise.all([
+    readInvoiceSettings(db), readIdentity(db),
     db.select().from(invoiceLines).where(eq(invoiceLines.invoiceId, invoice.id)).orderBy(asc(invoiceLines.position)),
     db.select().from(invoicePayments).where(eq(invoicePayments.invoiceId, invoice.id)).orderBy(asc(invoicePayments.createdAt)),
     db.select({ id: invoices.id, number: invoices.number, status: invoices.status, grossMinor: invoices.grossMinor, creditsInvoiceId: invoices.creditsInvoiceId })
       .from(invoices).where(sql`${invoices.creditsInvoiceId} = ${invoice.id} OR ${invoices.id} = ${invoice.creditsInvoiceId ?? ''}`),
+    db.select({ id: invoiceRefunds.id, amountMinor: invoiceRefunds.amountMinor, method: invoiceRefunds.method, paidOn: invoiceRefunds.paidOn })
+      .from(invoiceRefunds).where(eq(invoiceRefunds.invoiceId, invoice.id)).orderBy(asc(invoiceRefunds.createdAt)),
   ])
   const today = todayInTimeZone(business.timeZone)
   return {
     ...present(invoice, today, client.householdName),
     personName: client.personName,
     lines,
-    payments: payments.map(p => ({ ...p, recordedById: user.role === 'handler' ? null : p.recordedById })),
+    // A household sees its plain receipt number; a card payment's provider id stays the office's.
+    payments: payments.map(p => ({
+      ...p, recordedById: user.role === 'handler' ? null : p.recordedById,
+      reference: user.role === 'handler' && p.method === 'card' ? null : p.reference,
+    })),
     related: credits,
-    business: { name: business.name, locale: business.locale, taxNumber: policy.taxNumber, footer: policy.footer },
+    refunds,
+    // Once issued, the page shows who the document was from as it was frozen.
+    business: {
+      name: invoice.frozen?.seller.name ?? (identity.legalName || business.name), locale: business.locale,
+      taxNumber: invoice.frozen ? (invoice.frozen.seller.vatNumber ?? '') : identity.vatNumber, footer: invoice.frozen?.footer ?? policy.footer,
+    },
+    buyer: invoice.frozen?.buyer ?? billingParty(client, identity.country),
     canChange: user.role === 'admin',
   }
 }
@@ -185,14 +278,16 @@ export async function issueInvoice(user: AuthUser, invoice: InvoiceRow, client: 
  * Returns null when the invoice is no longer a draft (nothing is written then, and no number is used).
  */
 export async function issueDraftInTx(tx: Tx, actorId: string | null, invoiceId: string, client: ClientRow, business: BusinessProfile) {
-  const [current] = await tx.select({ dueInDays: invoices.dueInDays, status: invoices.status }).from(invoices).where(eq(invoices.id, invoiceId)).limit(1)
+  const [current] = await tx.select().from(invoices).where(eq(invoices.id, invoiceId)).limit(1)
   if (!current || current.status !== 'draft') return null
   const issueDate = todayInTimeZone(business.timeZone)
   const year = Number(issueDate.slice(0, 4))
   const seq = await nextInvoiceSeq(tx, year)
   const number = formatInvoiceNumber('invoice', year, seq)
+  const dueDate = addDays(issueDate, current.dueInDays)
+  const frozen = await freezeDocument(tx, { kind: 'invoice', number, issueDate, dueDate, currency: current.currency, notes: current.notes, invoiceId, client, corrects: null })
   const [row] = await tx.update(invoices).set({
-    status: 'open', number, numberYear: year, numberSeq: seq, issueDate, dueDate: addDays(issueDate, current.dueInDays), issuedAt: new Date(), scheduledIssueOn: null,
+    status: 'open', number, numberYear: year, numberSeq: seq, issueDate, dueDate, issuedAt: new Date(), scheduledIssueOn: null, frozen,
   }).where(and(eq(invoices.id, invoiceId), eq(invoices.status, 'draft'))).returning()
   if (!row) return null
   for (const h of await householdHandlers(tx, client.id)) {
@@ -200,7 +295,7 @@ export async function issueDraftInTx(tx: Tx, actorId: string | null, invoiceId: 
       to: h.email, dedupeKey: `invoice-issued:${row.id}:${h.email}`,
       attachments: [{ kind: 'invoice-pdf', id: row.id }],
       ...composeEmail({
-        subject: `Invoice ${number} from ${business.name}`,
+        subject: `Invoice ${number} from ${frozen.seller.tradingName || frozen.seller.name}`,
         greeting: `Hello ${h.name},`,
         paragraphs: [
           `Invoice ${number} for ${formatMoney(row.grossMinor, row.currency, business.locale)} is ready. It is due on ${row.dueDate}. The invoice is attached as a PDF.`,
@@ -222,8 +317,8 @@ export async function invoicePdfAttachment(invoiceId: string) {
   const [row] = await useDb().select({ invoice: invoices, client: clients }).from(invoices)
     .innerJoin(clients, eq(clients.id, invoices.clientId)).where(eq(invoices.id, invoiceId)).limit(1)
   if (!row) throw new Error(`Invoice ${invoiceId} to attach no longer exists`)
-  const viewer = { id: '', role: 'handler' } as AuthUser
-  const bytes = await renderInvoicePdf(await getInvoiceDetail(viewer, row.invoice, row.client))
+  const doc = await documentOf(row.invoice, row.client)
+  const bytes = await renderInvoicePdf(doc, await pdfAssets(doc.seller.logoId))
   return { filename: `${(row.invoice.number ?? 'invoice').replace(/[^\w-]/g, '')}.pdf`, content: Buffer.from(bytes), contentType: 'application/pdf' }
 }
 
@@ -270,6 +365,11 @@ export async function creditInvoice(user: AuthUser, invoice: InvoiceRow, client:
       notes: reason, creditsInvoiceId: invoice.id, createdById: user.id, issuedAt: new Date(), paidAt: wasOpen ? new Date() : null,
     }).returning()
     await insertLines(tx, note!.id, credit)
+    const frozen = await freezeDocument(tx, {
+      kind: 'credit_note', number, issueDate, dueDate: null, currency: invoice.currency, notes: reason, invoiceId: note!.id, client,
+      corrects: { number: invoice.number!, issueDate: invoice.issueDate },
+    })
+    await tx.update(invoices).set({ frozen }).where(eq(invoices.id, note!.id))
     await logAudit(tx, {
       actorId: user.id, action: 'invoice.credited', entityType: 'invoice', entityId: invoice.id, clientId: client.id,
       data: { name: `Credit note ${number} for invoice ${invoice.number}`, creditNoteId: note!.id, reason },
@@ -292,7 +392,7 @@ export async function recordManualPayment(user: AuthUser, invoice: InvoiceRow, c
     if (!row) invoiceConflict('This invoice was changed by someone else just now. Reload and try again.')
     const [payment] = await tx.insert(invoicePayments).values({
       invoiceId: invoice.id, amountMinor: input.amountMinor, method: input.method, reference: input.reference,
-      receivedOn: input.receivedOn, recordedById: user.id,
+      receivedOn: input.receivedOn, recordedById: user.id, receiptNumber: await nextReceiptNumber(tx, invoice),
     }).returning()
     await queueInvoiceReceipt(tx, row, client, payment!)
     await logAudit(tx, {
@@ -303,25 +403,61 @@ export async function recordManualPayment(user: AuthUser, invoice: InvoiceRow, c
   })
 }
 
-/** The receipt e-mail for one payment, once (keyed on the payment). */
+/** The next payment's plain receipt number on an invoice (inside the caller's write transaction). */
+export async function nextReceiptNumber(tx: Tx, invoice: InvoiceRow): Promise<string> {
+  const [row] = await tx.select({ n: sql<number>`count(*)` }).from(invoicePayments).where(eq(invoicePayments.invoiceId, invoice.id))
+  return receiptNumberFor(invoice.number ?? invoice.id, Number(row?.n ?? 0) + 1)
+}
+
+/** The receipt e-mail for one payment, once (keyed on the payment): what was paid for, line by line, and the PDF. */
 export async function queueInvoiceReceipt(tx: Tx, invoice: InvoiceRow, client: ClientRow, payment: typeof invoicePayments.$inferSelect) {
   const { business } = await readInvoiceSettings(tx)
-  const amount = formatMoney(payment.amountMinor, invoice.currency, business.locale)
+  const money = (m: number) => formatMoney(m, invoice.currency, business.locale)
+  const amount = money(payment.amountMinor)
   const left = balanceDue(invoice.grossMinor, invoice.paidMinor)
+  const lines = await tx.select().from(invoiceLines).where(eq(invoiceLines.invoiceId, invoice.id)).orderBy(asc(invoiceLines.position))
+  const receipt = payment.receiptNumber ?? receiptNumberFor(invoice.number ?? invoice.id, 1)
   for (const h of await householdHandlers(tx, client.id)) {
     await queueEmail(tx, {
       to: h.email, dedupeKey: `invoice-receipt:${payment.id}:${h.email}`,
+      attachments: [{ kind: 'receipt-pdf', id: payment.id }],
       ...composeEmail({
         subject: `Receipt for ${amount} — invoice ${invoice.number}`,
         greeting: `Hello ${h.name},`,
         paragraphs: [
-          `Thank you: we received ${amount} on ${payment.receivedOn} against invoice ${invoice.number}.`,
-          left > 0 ? `${formatMoney(left, invoice.currency, business.locale)} is still to pay on this invoice.` : 'This invoice is now paid in full.',
+          `Thank you: we received ${amount} on ${payment.receivedOn} against invoice ${invoice.number}. Your receipt number is ${receipt}; the receipt is attached as a PDF.`,
+          `Invoice ${invoice.number}: ${lines.map(l => `${l.quantity} × ${l.description}, ${money(l.grossMinor)}`).join('; ')}. Total ${money(invoice.grossMinor)}.`,
+          left > 0 ? `${money(left)} is still to pay on this invoice.` : 'This invoice is now paid in full.',
         ],
         action: { label: 'See your invoices', url: appUrl(`/handler/invoices/${invoice.id}`) },
       }),
     })
   }
+}
+
+/** One payment's receipt, as a document: the invoice as issued, the payment, and what was paid up to it. */
+export async function receiptDocument(invoice: InvoiceRow, client: ClientRow, paymentId: string): Promise<ReceiptDocument | null> {
+  const db = useDb()
+  const payments = await db.select().from(invoicePayments).where(eq(invoicePayments.invoiceId, invoice.id)).orderBy(asc(invoicePayments.createdAt), asc(invoicePayments.id))
+  const at = payments.findIndex(p => p.id === paymentId)
+  if (at < 0) return null
+  const p = payments[at]!
+  const paidToDateMinor = payments.slice(0, at + 1).reduce((a, x) => a + x.amountMinor, 0)
+  return {
+    receiptNumber: p.receiptNumber ?? receiptNumberFor(invoice.number ?? invoice.id, at + 1), receivedOn: p.receivedOn, method: p.method,
+    amountMinor: p.amountMinor, paidToDateMinor, balanceMinor: balanceDue(invoice.grossMinor, paidToDateMinor), invoice: await documentOf(invoice, client),
+  }
+}
+
+/** The receipt PDF as a nodemailer attachment (the outbox renders it when the message is sent). */
+export async function receiptPdfAttachment(paymentId: string) {
+  const [row] = await useDb().select({ invoice: invoices, client: clients }).from(invoicePayments)
+    .innerJoin(invoices, eq(invoices.id, invoicePayments.invoiceId)).innerJoin(clients, eq(clients.id, invoices.clientId))
+    .where(eq(invoicePayments.id, paymentId)).limit(1)
+  if (!row) throw new Error(`Payment ${paymentId} to attach no longer exists`)
+  const doc = await receiptDocument(row.invoice, row.client, paymentId)
+  const bytes = await renderReceiptPdf(doc!, await pdfAssets(doc!.invoice.seller.logoId))
+  return { filename: `${doc!.receiptNumber.replace(/[^\w-]/g, '')}.pdf`, content: Buffer.from(bytes), contentType: 'application/pdf' }
 }
 
 /** The roster column: what each client owes on open invoices, one query for the whole page. */

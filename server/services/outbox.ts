@@ -7,7 +7,7 @@ import type { EmailContent } from '../utils/mail'
  * sent (an issued invoice does not change, so the PDF sent is the invoice as issued; a rendering failure leaves the
  * message queued and retried like any sending failure).
  */
-export interface OutboxAttachment { kind: 'invoice-pdf' | 'appointment-ics', id: string }
+export interface OutboxAttachment { kind: 'invoice-pdf' | 'receipt-pdf' | 'appointment-ics', id: string }
 /** A single-use link in the message, by reference: its token is minted at sending (see SECRET_LINK_TOKEN). */
 export interface OutboxSecretLink { kind: 'password-reset' | 'invitation', id: string }
 export interface QueuedEmail extends EmailContent { to: string, dedupeKey?: string, attachments?: OutboxAttachment[], secretLink?: OutboxSecretLink }
@@ -30,6 +30,7 @@ async function renderAttachments(list: OutboxAttachment[] | null) {
   if (!list?.length) return undefined
   return Promise.all(list.map(async (a) => {
     if (a.kind === 'invoice-pdf') return invoicePdfAttachment(a.id)
+    if (a.kind === 'receipt-pdf') return receiptPdfAttachment(a.id)
     if (a.kind === 'appointment-ics') return appointmentIcsAttachment(a.id)
     throw new Error(`Unknown attachment kind ${String((a as { kind: string }).kind)}`)
   }))

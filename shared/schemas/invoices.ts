@@ -42,3 +42,16 @@ export const manualPaymentSchema = z.object({
   receivedOn: isoDate,
 })
 export type ManualPaymentInput = z.infer<typeof manualPaymentSchema>
+
+export const REFUND_METHOD_VALUES = ['bank_transfer', 'card', 'cash'] as const
+export const refundSchema = z.object({
+  amountMinor: wholeMinor('amount').min(1, 'The amount must be more than zero.'),
+  method: z.enum(REFUND_METHOD_VALUES, { errorMap: () => ({ message: 'Choose bank transfer, card or cash.' }) }),
+  reference: optionalText(80),
+  paidOn: isoDate,
+})
+export type RefundInput = z.infer<typeof refundSchema>
+
+export const paymentProblemResolveSchema = z.object({
+  resolution: z.string({ required_error: 'Say what was done about it.' }).trim().min(1, 'Say what was done about it.').max(500, 'Use at most 500 characters.'),
+})

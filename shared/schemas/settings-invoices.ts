@@ -4,7 +4,8 @@ import { numeric } from './common'
 import { defineSetting } from './settings'
 
 export const invoicePolicySchema = z.object({
-  taxNumber: z.string().trim().max(40, 'Use at most 40 characters.').default(''),
+  // The tax rate a new invoice line starts with, in per cent (20 for 20 %).
+  defaultTaxRatePercent: numeric(z.number().min(0, 'The tax rate cannot be negative.').max(100, 'The tax rate is at most 100 %.').multipleOf(0.01, 'Use at most two decimals, like 5.5.')),
   paymentTermsDays: numeric(z.number().int('Use whole days.').min(0, 'Use 0 or more days.').max(365, 'Use at most 365 days.')),
   footer: z.string().trim().max(300, 'Use at most 300 characters.').default(''),
 })
@@ -12,17 +13,17 @@ export type InvoicePolicy = z.infer<typeof invoicePolicySchema>
 
 export const INVOICE_POLICY_KEY = 'invoices'
 export const INVOICE_POLICY_DEFAULTS: InvoicePolicy = {
-  taxNumber: '', // The business's VAT or sales-tax number, printed on invoices when set.
+  defaultTaxRatePercent: 20, // the UK standard rate of VAT (GOV.UK, "VAT rates", from memory); the business sets its own
   paymentTermsDays: 14, // 14 days to pay (common practice for small service businesses).
   footer: 'Thank you. Payment by card online, or by bank transfer quoting the invoice number.',
 }
 
 export const invoicePolicy = defineSetting(INVOICE_POLICY_KEY, {
   label: 'Invoices',
-  description: 'The tax number printed on invoices, how many days a household has to pay, and the footer line.',
+  description: 'The tax rate new invoice lines start with, how many days a household has to pay, and the footer line. The VAT number and bank details are under Business identity.',
   schema: invoicePolicySchema,
   defaults: INVOICE_POLICY_DEFAULTS,
-  fieldLabels: { taxNumber: 'Tax number (VAT / sales tax)', paymentTermsDays: 'Days to pay', footer: 'Footer line' },
+  fieldLabels: { defaultTaxRatePercent: 'Tax rate of a new line (%)', paymentTermsDays: 'Days to pay', footer: 'Footer line' },
 })
 
 // Overdue reminders: one e-mail per open invoice per interval once it is overdue, at most a few times.

@@ -144,13 +144,20 @@ export interface ReminderPolicy {
 }
 
 /**
- * Which reminder is due for an invoice `daysOverdue` days past its due date: 1 for the first interval, 2 for the
- * next, …; null before the first or after the last. A run that missed intervals sends only the current one.
+ * The number of the reminder to send now, or null. Reminder k has its day `first + (k − 1) × interval` days after the
+ * due date; the next one not yet sent (`sent + 1`) goes once its day has come and at least an interval has passed
+ * since the last one, up to the maximum. So an invoice found long overdue (a run missed, reminders turned on late, an
+ * old debt) still gets its reminders, one per interval, instead of none because its scheduled days are past.
  */
-export function reminderNumberDue(daysOverdue: number, policy: ReminderPolicy): number | null {
-  if (!policy.enabled || daysOverdue < 1 || daysOverdue < policy.firstAfterDaysOverdue) return null
-  const k = Math.floor((daysOverdue - policy.firstAfterDaysOverdue) / policy.intervalDays) + 1
-  return k > policy.maxReminders ? null : k
+export function nextReminderDue(
+  state: { daysOverdue: number, remindersSent: number, daysSinceLastReminder: number | null },
+  policy: ReminderPolicy,
+): number | null {
+  if (!policy.enabled || state.remindersSent >= policy.maxReminders) return null
+  const k = state.remindersSent + 1
+  if (state.daysOverdue < 1 || state.daysOverdue < policy.firstAfterDaysOverdue + (k - 1) * policy.intervalDays) return null
+  if (state.daysSinceLastReminder !== null && state.daysSinceLastReminder < policy.intervalDays) return null
+  return k
 }
 
 /** The `count` calendar months ending with today's, oldest first, as YYYY-MM. */

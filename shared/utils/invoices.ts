@@ -84,3 +84,13 @@ export function agedReceivables(rows: ReadonlyArray<{ status: InvoiceStatus, kin
   }
   return out
 }
+
+/**
+ * Money owed back to the household on a document: on an invoice, what was paid beyond its total (all of it when the
+ * invoice was voided); on an open credit note (a paid invoice credited), its amount. Less what was already refunded.
+ */
+export function refundDue(inv: { kind: InvoiceKind, status: InvoiceStatus, grossMinor: number, paidMinor: number, refundedMinor: number }): number {
+  if (inv.kind === 'credit_note') return inv.status === 'open' ? Math.max(0, -inv.grossMinor - inv.refundedMinor) : 0
+  if (inv.status === 'void') return Math.max(0, inv.paidMinor - inv.refundedMinor)
+  return Math.max(0, inv.paidMinor - inv.grossMinor - inv.refundedMinor)
+}

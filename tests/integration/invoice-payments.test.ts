@@ -66,7 +66,7 @@ describe('card payment through the fake Stripe', () => {
 
     const ok = await payOnPage(url, OK_CARD)
     expect(ok.status).toBe(303)
-    expect(ok.headers.get('location')).toContain(`/handler/invoices/${OPEN_A}`)
+    expect(ok.headers.get('location')).toContain(`/invoices/${OPEN_A}?paid=1`)
     expect(await waitForStatus(OPEN_A, 'paid')).toMatchObject({ paid_minor: 40200 })
     expect(await payments(OPEN_A)).toBe(1)
     const receipt = await waitForMail(mailUrl, HANDLER_A, 'Receipt for £402.00')

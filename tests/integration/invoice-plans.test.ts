@@ -142,6 +142,8 @@ describe('the invoice job', () => {
   it('reminds the household of an overdue invoice once per policy interval and records when', async () => {
     const reminders = async () => (await inbox(mailUrl, HANDLER_A)).filter(m => m.subject.startsWith('Reminder: invoice') && m.text.includes(OPEN_A))
     const seen = (await reminders()).length
+    // The seed's long-overdue Moreau invoice has had all its reminders (tested below); this test follows one invoice.
+    await query('update invoices set reminders_sent = 3 where id = ?', [seedId('invoice:moreau-5')])
     // Two days overdue: before the first reminder (3 days, the policy default).
     await query('update invoices set due_date = ? where id = ?', [daysFromToday(-2), OPEN_A])
     expect((await admin.post('/api/invoices/run-schedule')).body.reminded).toBe(0)
@@ -155,8 +157,8 @@ describe('the invoice job', () => {
     const listed = (await admin.get('/api/invoices')).body.rows.find((r: any) => r.id === OPEN_A)
     expect(listed.lastRemindedAt).toBeTruthy()
     expect(listed.remindersSent).toBe(1)
-    // A week later (10 days overdue): the second reminder.
-    await query('update invoices set due_date = ? where id = ?', [daysFromToday(-10), OPEN_A])
+    // A week later (10 days overdue, the last reminder 7 days ago): the second reminder.
+    await query('update invoices set due_date = ?, last_reminded_at = ? where id = ?', [daysFromToday(-10), Date.now() - 7 * 86_400_000, OPEN_A])
     expect((await admin.post('/api/invoices/run-schedule')).body.reminded).toBe(1)
     expect(await one('select reminders_sent from invoices where id = ?', [OPEN_A])).toMatchObject({ reminders_sent: 2 })
     const deadline = Date.now() + 10_000
@@ -167,6 +169,33 @@ describe('the invoice job', () => {
     expect(off.status, JSON.stringify(off.body)).toBe(200)
     await query('update invoices set due_date = ? where id = ?', [daysFromToday(-17), OPEN_A])
     expect((await admin.post('/api/invoices/run-schedule')).body.reminded).toBe(0)
+  })
+})
+
+describe('reminders reach every overdue invoice', () => {
+  it('reminds invoices 4, 11, 36 and 400 days overdue (never reminded) once, oldest first, and not the 2-day one', async () => {
+    // Policy defaults (common practice): first after 3 days, then every 7, at most 3. The seed's Moreau invoice was
+    // issued 50 days ago with 14 days to pay: 36 days overdue and never reminded (it used to be skipped for good).
+    const MOREAU_36 = seedId('invoice:moreau-5')
+    expect(await one('select due_date, reminders_sent from invoices where id = ?', [MOREAU_36])).toMatchObject({ due_date: daysFromToday(-36), reminders_sent: 0 })
+    const fair = await one('select client_id from invoices where id = ?', [OPEN_A])
+    for (const [i, d] of [2, 4, 11, 400].entries()) {
+      await query(`insert into invoices (id, client_id, kind, status, number, number_year, number_seq, currency, issue_date, due_date, net_minor, tax_minor, gross_minor, paid_minor, due_in_days)
+        values (?, ?, 'invoice', 'open', ?, 1999, ?, 'GBP', ?, ?, 10000, 2000, 12000, 0, 14)`, [`overdue-${d}`, String(fair.client_id), `INV-1999-${String(i + 1).padStart(4, '0')}`, i + 1, daysFromToday(-d - 14), daysFromToday(-d)])
+    }
+    const sentCounts = async () => Object.fromEntries((await query(`select id, reminders_sent from invoices where id like 'overdue-%' or id = ?`, [MOREAU_36])).map(r => [r.id, r.reminders_sent]))
+    expect((await admin.post('/api/invoices/run-schedule')).body.reminded).toBe(4)
+    expect(await sentCounts()).toEqual({ 'overdue-400': 1, [MOREAU_36]: 1, 'overdue-11': 1, 'overdue-4': 1, 'overdue-2': 0 })
+    const mail = await waitForMail(mailUrl, HANDLER_A, 'INV-1999-0004')
+    expect(mail.subject).toBe('Reminder: invoice INV-1999-0004 is overdue')
+    // The same day again: nothing more (the next waits an interval).
+    expect((await admin.post('/api/invoices/run-schedule')).body.reminded).toBe(0)
+    // A week on: the 36- and 11-day ones get their second (its day, 10, has passed); the 4-day one waits for day 10;
+    // one already at the maximum (3) gets none.
+    await query(`update invoices set last_reminded_at = ? where id like 'overdue-%' or id = ?`, [Date.now() - 7 * 86_400_000, MOREAU_36])
+    await query('update invoices set reminders_sent = 3 where id = ?', ['overdue-400'])
+    expect((await admin.post('/api/invoices/run-schedule')).body.reminded).toBe(2)
+    expect(await sentCounts()).toEqual({ 'overdue-400': 3, [MOREAU_36]: 2, 'overdue-11': 2, 'overdue-4': 1, 'overdue-2': 0 })
   })
 })
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { addMonths, allocateTax, buildFeePlan, feeScheduleQuote, lastMonths, reminderNumberDue, revenueByMonth } from '../../shared/utils/fee-plan'
+import { addMonths, allocateTax, buildFeePlan, feeScheduleQuote, lastMonths, nextReminderDue, revenueByMonth } from '../../shared/utils/fee-plan'
 import { creditLines } from '../../shared/utils/invoices'
 import { invoiceTotals, lineTotals, parsePercent } from '../../shared/utils/money'
 import { feeScheduleFormSchema, feeScheduleSchema, invoiceDraftFormSchema } from '../../shared/schemas/fee-schedules'
@@ -142,13 +142,24 @@ describe('tax on a plan adds up to the quote (largest remainder)', () => {
   })
 })
 
-describe('reminderNumberDue', () => {
+describe('nextReminderDue', () => {
   // Defaults of shared/schemas/settings-invoices.ts (common practice): first after 3 days, then every 7, at most 3.
   const policy = { enabled: true, firstAfterDaysOverdue: 3, intervalDays: 7, maxReminders: 3 }
-  it('gives one reminder number per interval, none before the first or after the last', () => {
-    expect([0, 1, 2].map(d => reminderNumberDue(d, policy))).toEqual([null, null, null])
-    expect([3, 9, 10, 16, 17, 23, 24].map(d => reminderNumberDue(d, policy))).toEqual([1, 1, 2, 2, 3, 3, null])
-    expect(reminderNumberDue(10, { ...policy, enabled: false })).toBeNull()
+  const never = (daysOverdue: number) => nextReminderDue({ daysOverdue, remindersSent: 0, daysSinceLastReminder: null }, policy)
+  it('reminds an invoice never reminded, however long overdue, and none before the first day', () => {
+    expect([0, 1, 2].map(never)).toEqual([null, null, null])
+    // 2, 4, 11, 36 and 400 days overdue, never reminded: the first reminder is due for all but the 2-day one.
+    expect([2, 4, 11, 36, 400].map(never)).toEqual([null, 1, 1, 1, 1])
+  })
+  it('sends the next one once its day has come and an interval has passed since the last, up to the maximum', () => {
+    const at = (daysOverdue: number, remindersSent: number, daysSinceLastReminder: number | null) => nextReminderDue({ daysOverdue, remindersSent, daysSinceLastReminder }, policy)
+    expect(at(9, 1, 6)).toBeNull() // the second's day (10) not yet come
+    expect(at(10, 1, 7)).toBe(2)
+    expect(at(36, 1, 0)).toBeNull() // reminded today: the next waits an interval
+    expect(at(36, 1, 7)).toBe(2)
+    expect(at(400, 2, 30)).toBe(3)
+    expect(at(400, 3, 30)).toBeNull() // the maximum reached
+    expect(nextReminderDue({ daysOverdue: 10, remindersSent: 0, daysSinceLastReminder: null }, { ...policy, enabled: false })).toBeNull()
   })
 })
 

@@ -42,6 +42,12 @@ export const clients = sqliteTable('clients', {
   addressLine: text('address_line'),
   town: text('town'),
   postcode: text('postcode'),
+  // Who invoices are addressed to; each empty field falls back to the contact (person, address) above.
+  billingName: text('billing_name'),
+  billingAddressLine: text('billing_address_line'),
+  billingTown: text('billing_town'),
+  billingPostcode: text('billing_postcode'),
+  billingCountry: text('billing_country'),
   condition: text('condition', { enum: CONDITIONS }).notNull(),
   conditionDetail: text('condition_detail'),
   clinicianName: text('clinician_name'),

@@ -1,7 +1,9 @@
 // Invoices and credit notes, their lines, the per-year number sequence and payments recorded against them.
-import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
+import { blob, index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
 import { INVOICE_KINDS, INVOICE_STATUSES } from '../../../shared/utils/invoices'
 import type { FeeLine } from '../../../shared/utils/fee-plan'
+import type { FrozenInvoice } from '../../../shared/utils/invoice-document'
+import { REFUND_METHOD_VALUES } from '../../../shared/schemas/invoices'
 import { clients, id, timestamps, users } from './core'
 import { programmeTemplates } from './training'
 
@@ -37,6 +39,13 @@ export const invoices = sqliteTable('invoices', {
   // Overdue reminders: how many were sent (one per policy interval) and when the last one was queued.
   remindersSent: integer('reminders_sent').notNull().default(0),
   lastRemindedAt: integer('last_reminded_at', { mode: 'timestamp_ms' }),
+  // The one card checkout open for this invoice, whoever asked for it: reused while open, so it is paid once.
+  checkoutSessionId: text('checkout_session_id'),
+  // Money paid back (an overpayment, or the refund a credit note owes).
+  refundedMinor: integer('refunded_minor').notNull().default(0),
+  // The document as issued (seller, buyer, lines, rates, totals, wording), frozen at issue: its PDF is drawn from
+  // this alone, so it is the same document however the business's settings change later.
+  frozen: text('frozen', { mode: 'json' }).$type<FrozenInvoice>(),
   ...timestamps,
 }, t => [
   uniqueIndex('invoices_number_uq').on(t.number),
@@ -76,6 +85,8 @@ export const invoicePayments = sqliteTable('invoice_payments', {
   reference: text('reference'),
   receivedOn: text('received_on').notNull(), // YYYY-MM-DD
   recordedById: text('recorded_by_id').references(() => users.id),
+  // What the household sees: R-<invoice number>-<n>, never the provider's internal id.
+  receiptNumber: text('receipt_number'),
   ...timestamps,
 }, t => [uniqueIndex('invoice_payments_reference_uq').on(t.method, t.reference), index('invoice_payments_invoice_idx').on(t.invoiceId)])
 
@@ -86,6 +97,47 @@ export const stripeEvents = sqliteTable('stripe_events', {
   invoiceId: text('invoice_id'),
   outcome: text('outcome').notNull(),
   receivedAt: integer('received_at', { mode: 'timestamp_ms' }).notNull().$defaultFn(() => new Date()),
+})
+
+export const PAYMENT_PROBLEM_KINDS = ['currency-mismatch', 'amount-mismatch', 'unknown-invoice'] as const
+
+/**
+ * A card payment the webhook did not record because it does not match its invoice (another currency, another amount,
+ * no such invoice): listed for the office to look into, never counted as paid.
+ */
+export const paymentProblems = sqliteTable('payment_problems', {
+  id: id(),
+  eventId: text('event_id').notNull(),
+  invoiceId: text('invoice_id'),
+  kind: text('kind', { enum: PAYMENT_PROBLEM_KINDS }).notNull(),
+  amountMinor: integer('amount_minor'),
+  currency: text('currency'),
+  reference: text('reference'),
+  detail: text('detail').notNull(),
+  resolvedAt: integer('resolved_at', { mode: 'timestamp_ms' }),
+  resolvedById: text('resolved_by_id').references(() => users.id),
+  resolution: text('resolution'),
+  ...timestamps,
+}, t => [uniqueIndex('payment_problems_event_uq').on(t.eventId)])
+
+/** Money paid back to a household: against an overpaid invoice, or the credit note that owes it. */
+export const invoiceRefunds = sqliteTable('invoice_refunds', {
+  id: id(),
+  invoiceId: text('invoice_id').notNull().references(() => invoices.id),
+  amountMinor: integer('amount_minor').notNull(),
+  method: text('method', { enum: REFUND_METHOD_VALUES }).notNull(),
+  reference: text('reference'),
+  paidOn: text('paid_on').notNull(), // YYYY-MM-DD
+  recordedById: text('recorded_by_id').references(() => users.id),
+  ...timestamps,
+}, t => [index('invoice_refunds_invoice_idx').on(t.invoiceId)])
+
+/** Logos uploaded by the office, kept by content hash and never changed, so an issued invoice keeps its logo. */
+export const businessLogos = sqliteTable('business_logos', {
+  id: text('id').primaryKey(), // sha-256 of the bytes
+  mime: text('mime').notNull(),
+  bytes: blob('bytes', { mode: 'buffer' }).notNull(),
+  ...timestamps,
 })
 
 /** A programme template's fees: the price list and the payment plan (deposit, then instalments), one per template. */

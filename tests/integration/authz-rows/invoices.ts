@@ -53,3 +53,37 @@ rows.push({
   route: 'GET /api/invoices/[id]/pdf', path: `/api/invoices/${OPEN_A}/pdf`,
   expect: { ...clientA(200), handlerA: { status: 200, check: r => expect(String(r.headers.get('content-type'))).toContain('application/pdf') } },
 })
+
+// Refunds and card payments to look into: the office only.
+const PAID_A = seedId('invoice:fair-1')
+async function creditNoteForPaidA(admin: Agent) {
+  const res = await admin.post(`/api/invoices/${PAID_A}/credit-note`, { reason: 'Programme ended early.' })
+  if (res.status !== 201) throw new Error(`Could not credit: ${res.status} ${JSON.stringify(res.body)}`)
+  return { id: res.body.id as string }
+}
+async function paymentProblemOnA(admin: Agent) {
+  const co = await admin.post(`/api/invoices/${OPEN_A}/checkout`)
+  if (co.status !== 200) throw new Error(`Could not start a checkout: ${co.status} ${JSON.stringify(co.body)}`)
+  // The fake provider charges another currency: the webhook lists it as a problem instead of a payment.
+  await fetch(`${new URL(co.body.url).origin}/_fake/sessions/${co.body.sessionId}/complete`, { method: 'POST', body: JSON.stringify({ currency: 'usd' }) })
+  const deadline = Date.now() + 10_000
+  for (;;) {
+    const open = ((await admin.get('/api/payment-problems')).body.rows as Array<{ id: string, resolvedAt: string | null }>).find(p => !p.resolvedAt)
+    if (open) return { id: open.id }
+    if (Date.now() > deadline) throw new Error('No payment problem was listed')
+    await new Promise(r => setTimeout(r, 100))
+  }
+}
+rows.push(
+  { route: 'POST /api/invoices/[id]/refunds', path: (_a, ctx) => `/api/invoices/${ctx.id}/refunds`, prepare: creditNoteForPaidA, body: { amountMinor: 100, method: 'bank_transfer', paidOn: '2026-01-05' }, mutates: true, expect: adminOnly(201) },
+  { route: 'GET /api/payment-problems', path: '/api/payment-problems', expect: adminOnly(200) },
+  { route: 'POST /api/payment-problems/[id]/resolve', path: (_a, ctx) => `/api/payment-problems/${ctx.id}/resolve`, prepare: paymentProblemOnA, body: { resolution: 'Refunded with the provider.' }, mutates: true, expect: adminOnly(200) },
+)
+
+// A receipt PDF: the household that paid, its trainer and the office (the seeded bank transfer on the paid invoice).
+rows.push({
+  route: 'GET /api/invoices/[id]/receipts/[paymentId]',
+  path: (_a, ctx) => `/api/invoices/${PAID_A}/receipts/${ctx.paymentId}`,
+  prepare: async admin => ({ paymentId: String((await admin.get(`/api/invoices/${PAID_A}`)).body.payments[0].id) }),
+  expect: { ...clientA(200), handlerA: { status: 200, check: r => expect(String(r.headers.get('content-type'))).toContain('application/pdf') } },
+})

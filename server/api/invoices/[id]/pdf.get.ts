@@ -1,11 +1,12 @@
 import { idParams } from '../../../../shared/schemas/common'
 
-// The invoice as a PDF download, for the household (its issued invoices) and the office.
+// The invoice or credit note as a PDF, drawn from its record frozen at issue (the household: its issued ones; the
+// office: also a draft, as a preview from today's settings).
 export default defineEventHandler(async (event) => {
   const { id } = getValidatedParams(event, idParams)
-  const { user, invoice, client } = await requireInvoiceAccess(event, id)
-  const detail = await getInvoiceDetail(user, invoice, client)
-  const bytes = await renderInvoicePdf(detail)
+  const { invoice, client } = await requireInvoiceAccess(event, id)
+  const doc = await documentOf(invoice, client)
+  const bytes = await renderInvoicePdf(doc, await pdfAssets(doc.seller.logoId))
   setResponseHeaders(event, {
     'content-type': 'application/pdf',
     'content-disposition': `attachment; filename="${(invoice.number ?? 'draft-invoice').replace(/[^\w-]/g, '')}.pdf"`,
