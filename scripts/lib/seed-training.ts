@@ -3,6 +3,7 @@
 //  - Fairweather: intake, sample bank and imprinting signed off; five discrimination sessions in the last weeks
 //    (30 trials, two sessions blind): good figures, not yet enough for the discrimination milestone.
 //  - Achterberg: intake signed off; one short session.
+import { eq } from 'drizzle-orm'
 import type { Database } from '../../server/database/client'
 import * as s from '../../server/database/schema'
 import { DEFAULT_PROGRAMME } from '../../shared/utils/training'
@@ -24,6 +25,7 @@ async function seedProgramme(tx: Tx, ctx: SeedCtx, key: string, trainerKey: stri
     confirmedAt: position < confirmed ? new Date(ctx.today.getTime() - (startedDaysAgo - position * 20) * DAY) : null,
     confirmedById: position < confirmed ? ctx.seedId(`user:${trainerKey}`) : null,
   })))
+  await tx.update(s.clients).set({ programmeTemplateId: ctx.seedId('template:default') }).where(eq(s.clients.id, clientId))
 }
 
 /** One session of trials: `pattern` letters per trial — H hit, M miss, W wrong station, C correct rejection, F false alert on a blank. */

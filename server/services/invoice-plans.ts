@@ -108,6 +108,31 @@ export async function createPlanInvoices(actor: AuthUser, client: ClientRow, tem
   }
 }
 
+/**
+ * What starting a programme from a template would invoice and e-mail, before anything is written: the parts of its
+ * plan due today (issued and e-mailed at once) and those issued on later days, with their amounts and who is e-mailed.
+ */
+export async function previewProgrammeBilling(client: ClientRow, templateId: string) {
+  const db = useDb()
+  const [[template], [schedule], { business }] = await Promise.all([
+    db.select({ id: programmeTemplates.id, name: programmeTemplates.name, archivedAt: programmeTemplates.archivedAt }).from(programmeTemplates).where(eq(programmeTemplates.id, templateId)).limit(1),
+    db.select().from(feeSchedules).where(eq(feeSchedules.templateId, templateId)).limit(1),
+    readInvoiceSettings(db),
+  ])
+  if (!template || template.archivedAt) planError(422, 'Choose one of the programme templates.', { templateId: 'Choose one of the programme templates.' })
+  const today = todayInTimeZone(business.timeZone)
+  const recipients = (await householdHandlers(db, client.id)).map(h => h.email)
+  if (!schedule) return { template: template.name, hasSchedule: false, alreadyInvoiced: false, currency: business.currency, locale: business.locale, today, recipients, parts: [] }
+  const existing = await db.select({ id: invoices.id }).from(invoices).where(and(eq(invoices.clientId, client.id), eq(invoices.feeScheduleId, schedule.id))).limit(1)
+  let plan
+  try { plan = buildFeePlan(schedule, today) }
+  catch (e) { planError(422, `The fee schedule cannot be used: ${(e as Error).message}`) }
+  return {
+    template: template.name, hasSchedule: true, alreadyInvoiced: existing.length > 0, currency: schedule.currency, locale: business.locale, today, recipients,
+    parts: plan.map(p => ({ part: p.part, label: p.label, issueOn: p.issueOn, now: p.issueOn <= today, grossMinor: invoiceTotalsForIssue(p.lines, 'invoice').grossMinor })),
+  }
+}
+
 /** A programme has just started: create its plan's invoices if the template has a schedule. Never fails the start. */
 export async function createPlanInvoicesOnProgrammeStart(actor: AuthUser, client: ClientRow, templateId: string) {
   try {

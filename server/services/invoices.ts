@@ -154,6 +154,8 @@ export async function listInvoices(user: AuthUser, query: { status?: string, cli
     user.role === 'handler' ? sql`${invoices.status} <> 'draft'` : undefined,
     query.clientId ? eq(invoices.clientId, query.clientId) : undefined,
     query.status && query.status !== 'overdue' && query.status !== 'scheduled' ? eq(invoices.status, query.status as InvoiceRow['status']) : undefined,
+    // A plan's instalments waiting for their day are listed only when asked for ("Planned instalments").
+    query.status !== 'scheduled' ? sql`not (${invoices.status} = 'draft' and ${invoices.scheduledIssueOn} is not null)` : undefined,
     query.status === 'scheduled' ? and(eq(invoices.status, 'draft'), sql`${invoices.scheduledIssueOn} is not null`) : undefined,
     query.status === 'overdue' ? and(eq(invoices.status, 'open'), sql`${invoices.dueDate} < ${today}`) : undefined,
   )
@@ -221,15 +223,19 @@ export async function getInvoiceDetail(user: AuthUser, invoice: InvoiceRow, clie
   }
 }
 
+/** A draft's currency and lines checked (422 naming the field), and its totals. */
+function checkedDraftTotals(currency: string, input: InvoiceCreateInput) {
+  try { minorUnits(currency) }
+  catch (e) { invoiceRuleError({ currency: (e as Error).message }) }
+  try { return invoiceTotalsForIssue(input.lines, 'invoice') }
+  catch (e) { invoiceRuleError({ lines: (e as Error).message }) }
+}
+
 /** A draft invoice for a client, with its lines priced and taxed per line. */
 export async function createInvoiceDraft(user: AuthUser, client: ClientRow, input: InvoiceCreateInput) {
   const { business, policy } = await readInvoiceSettings()
   const currency = input.currency ?? business.currency
-  try { minorUnits(currency) }
-  catch (e) { invoiceRuleError({ currency: (e as Error).message }) }
-  let totals
-  try { totals = invoiceTotalsForIssue(input.lines, 'invoice') }
-  catch (e) { invoiceRuleError({ lines: (e as Error).message }) }
+  const totals = checkedDraftTotals(currency, input)
   return invoiceWrite(async (tx) => {
     const [inv] = await tx.insert(invoices).values({
       clientId: client.id, kind: 'invoice', status: 'draft', currency,
@@ -242,6 +248,27 @@ export async function createInvoiceDraft(user: AuthUser, client: ClientRow, inpu
       data: { name: `Draft invoice for ${client.householdName}`, grossMinor: totals.grossMinor, currency },
     })
     return inv!
+  })
+}
+
+/** Replaces a draft's lines, note, terms and currency. An issued invoice is never edited: it is credited instead. */
+export async function updateInvoiceDraft(user: AuthUser, invoice: InvoiceRow, client: ClientRow, input: InvoiceCreateInput) {
+  if (invoice.status !== 'draft') invoiceConflict(`This invoice is ${invoice.status === 'open' || invoice.status === 'paid' ? 'issued' : invoice.status}; an issued invoice is never edited. Credit it and issue a corrected one.`)
+  const currency = input.currency ?? invoice.currency
+  const totals = checkedDraftTotals(currency, input)
+  return invoiceWrite(async (tx) => {
+    const [row] = await tx.update(invoices).set({
+      currency, netMinor: totals.netMinor, taxMinor: totals.taxMinor, grossMinor: totals.grossMinor,
+      dueInDays: input.dueInDays ?? invoice.dueInDays, notes: input.notes ?? null,
+    }).where(and(eq(invoices.id, invoice.id), eq(invoices.status, 'draft'))).returning()
+    if (!row) invoiceConflict('This invoice was issued or discarded by someone else just now. Reload to see it.')
+    await tx.delete(invoiceLines).where(eq(invoiceLines.invoiceId, invoice.id))
+    await insertLines(tx, invoice.id, input.lines)
+    await logAudit(tx, {
+      actorId: user.id, action: 'invoice.draft-edited', entityType: 'invoice', entityId: invoice.id, clientId: client.id,
+      data: { name: `Draft invoice for ${client.householdName} edited`, grossMinor: totals.grossMinor, currency },
+    })
+    return row
   })
 }
 

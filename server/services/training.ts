@@ -2,6 +2,7 @@
 // e-mail to the household through the outbox), sessions and trials, and the roster column. Pure rules live in
 // shared/utils/training.ts and shared/utils/stats.ts.
 import type { H3Event } from 'h3'
+import { toCsv } from '../../shared/utils/csv'
 import { and, asc, desc, eq, gte, inArray, isNull, lte, or, sql, type SQL } from 'drizzle-orm'
 import { clientMilestones, clients, dogs, homeworkAssignments, programmeTemplates, sampleUses, samples, trainingSessions, trainingTrials, users } from '../database/schema'
 import type { MilestoneAddInput, MilestoneUpdateInput, SessionCreateInput, SessionListQuery, TemplateUpdateInput, TrialInput } from '../../shared/schemas/training'
@@ -71,19 +72,17 @@ export async function requireTrialAccess(event: H3Event, trialId: string) {
 // ---------------------------------------------------------------------------------------------------------------
 // Templates and programmes
 
-export function listProgrammeTemplates() {
-  return useDb().select().from(programmeTemplates).orderBy(sql`${programmeTemplates.isDefault} desc`, asc(programmeTemplates.name))
-}
-
 export async function createClientProgramme(user: AuthUser, client: ClientRow, templateId: string) {
   return useDb().transaction(async (tx) => {
     const [template] = await tx.select().from(programmeTemplates).where(eq(programmeTemplates.id, templateId)).limit(1)
     if (!template) trainingRuleError(422, 'Choose one of the programme templates.', { templateId: 'Choose one of the programme templates.' })
+    if (template.archivedAt) trainingRuleError(422, `The template “${template.name}” is archived. Choose another, or ask the office to bring it back.`, { templateId: 'This template is archived.' })
     const existing = await tx.select({ id: clientMilestones.id }).from(clientMilestones).where(eq(clientMilestones.clientId, client.id)).limit(1)
     if (existing.length) trainingRuleError(409, 'This client already has a programme. Adjust its milestones instead of starting another.')
     const rows = await tx.insert(clientMilestones).values(template.milestones.map((m, position) => ({
       clientId: client.id, position, name: m.name, handlerText: m.handlerText, measured: m.measured,
     }))).returning()
+    await tx.update(clients).set({ programmeTemplateId: template.id }).where(eq(clients.id, client.id))
     await logAudit(tx, { actorId: user.id, action: 'programme.created', entityType: 'client', entityId: client.id, clientId: client.id, data: { name: template.name, templateId } })
     return rows.sort((a, b) => a.position - b.position)
   })
@@ -427,13 +426,6 @@ export async function updateProgrammeTemplate(user: AuthUser, templateId: string
   })
 }
 
-const csvCell = (v: unknown) => {
-  const s = v === null || v === undefined ? '' : String(v)
-  // Quote per RFC 4180; a leading = + - @ is prefixed with ' so spreadsheets do not run it as a formula (OWASP, "CSV Injection").
-  const safe = /^[=+\-@\t\r]/.test(s) ? `'${s}` : s
-  return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe
-}
-
 /** The training log as CSV: one line per trial with its session, its outcome class, and the session's score. */
 export async function trainingLogCsv(client: ClientRow) {
   const sessions = (await listTrainingSessions(client)).reverse()
@@ -445,7 +437,7 @@ export async function trainingLogCsv(client: ClientRow) {
   for (const s of sessions) {
     s.trials.forEach((t, i) => lines.push([s.day, s.stage, s.place ?? '', s.runBy, s.blind ? 'yes' : 'no', String(i + 1), String(t.stations), t.targetStation === null ? 'blank' : String(t.targetStation), t.indicatedStation === null ? 'none' : String(t.indicatedStation), outcome(t), t.latencySeconds === null ? '' : String(t.latencySeconds), rate(s.score.sensitivity), rate(s.score.specificity), t.notes ?? '']))
   }
-  return `${lines.map(l => l.map(csvCell).join(',')).join('\r\n')}\r\n`
+  return toCsv(lines)
 }
 
 // ---------------------------------------------------------------------------------------------------------------

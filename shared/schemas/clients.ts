@@ -71,3 +71,13 @@ export const activityQuery = z.object({
   before: numeric(z.number().int().positive().optional()),
   limit: numeric(z.number().int().min(1).max(100).default(30)),
 })
+
+/** Who a client's invoices are addressed to; each empty field falls back to the household's contact details. */
+export const clientBillingSchema = z.object({
+  billingName: optionalText(160),
+  billingAddressLine: optionalText(200),
+  billingTown: optionalText(100),
+  billingPostcode: optionalText(20),
+  billingCountry: z.string().trim().toUpperCase().regex(/^([A-Z]{2})?$/, 'Use a two-letter country code, like GB (ISO 3166-1).').default(''),
+})
+export type BillingInput = z.infer<typeof clientBillingSchema>

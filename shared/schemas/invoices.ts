@@ -55,3 +55,9 @@ export type RefundInput = z.infer<typeof refundSchema>
 export const paymentProblemResolveSchema = z.object({
   resolution: z.string({ required_error: 'Say what was done about it.' }).trim().min(1, 'Say what was done about it.').max(500, 'Use at most 500 characters.'),
 })
+
+/** The accountant's export: documents issued, payments received and refunds paid between two days (inclusive). */
+export const invoiceExportQuery = z.object({ from: isoDate, to: isoDate }).superRefine((q, ctx) => {
+  if (q.from > q.to) ctx.addIssue({ code: 'custom', path: ['to'], message: 'The end date is before the start date.' })
+  else if (Date.parse(q.to) - Date.parse(q.from) > 3 * 366 * 86_400_000) ctx.addIssue({ code: 'custom', path: ['to'], message: 'Export at most three years at a time.' })
+})

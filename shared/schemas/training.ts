@@ -21,7 +21,6 @@ export const criteriaSchema = z.object({
   minSpecificityLowerPercent: percent('the specificity lower bound'),
 })
 
-export const programmeCreateSchema = z.object({ templateId: id })
 
 /** A trainer tightens a measured milestone's criteria for this client (null: back to the business's defaults). */
 export const milestoneCriteriaSchema = z.object({ criteria: criteriaSchema.nullable() })
@@ -113,3 +112,16 @@ export const sessionListQuery = z.object({
   pageSize: numeric(z.number().int('Use a whole number of rows.').min(5, 'Show at least 5 rows.').max(100, 'Show at most 100 rows.').default(25)),
 }).refine(v => !v.from || !v.to || v.from <= v.to, { path: ['to'], message: 'The end date must be on or after the start date.' })
 export type SessionListQuery = z.infer<typeof sessionListQuery>
+
+/** Archive a programme template (true) or bring it back (false). */
+export const templateArchiveSchema = z.object({ archived: z.boolean({ required_error: 'Say whether to archive the template (true) or bring it back (false).', invalid_type_error: 'Use true or false.' }) })
+
+export const templateListQuery = z.object({ archived: z.enum(['0', '1']).optional() })
+
+/** Starting a client's programme: from this template, invoicing its fee plan now (the default) or leaving billing to the office. */
+export const programmeStartSchema = z.object({
+  templateId: id,
+  billing: z.enum(['plan', 'none'], { errorMap: () => ({ message: 'Choose whether to invoice the fee plan now or bill by hand.' }) }).default('plan'),
+})
+
+export const programmePreviewQuery = z.object({ templateId: id })

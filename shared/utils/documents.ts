@@ -38,6 +38,9 @@ const HEIF: AcceptedType = { mime: 'image/heif', ext: 'heif', label: 'HEIC', inl
 
 export const DOCUMENT_TYPES: readonly AcceptedType[] = [PDF, JPEG, PNG, HEIC, HEIF]
 export const DOG_PHOTO_TYPES: readonly AcceptedType[] = [JPEG, PNG, HEIC, HEIF]
+/** A business logo is printed in PDFs, which embed PNG and JPEG only. */
+export const LOGO_TYPES: readonly AcceptedType[] = [PNG, JPEG]
+export const LOGO_MAX_BYTES = 512 * 1024
 /** For the file picker's `accept`: a hint to the browser only; the server checks the bytes. */
 export const DOCUMENT_ACCEPT = '.pdf,.jpg,.jpeg,.png,.heic,application/pdf,image/jpeg,image/png,image/heic,image/heif'
 export const DOG_PHOTO_ACCEPT = '.jpg,.jpeg,.png,.heic,image/jpeg,image/png,image/heic,image/heif'

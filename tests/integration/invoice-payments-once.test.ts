@@ -2,11 +2,11 @@
 // the webhook checking the charged currency and amount against the invoice (a mismatch listed for the office, no
 // payment), deliveries signed in the future or for an unknown invoice refused, an overpayment shown as money to
 // refund and its refund recorded.
-import { createClient as libsql } from '@libsql/client'
 import { beforeEach, describe, expect, inject, it } from 'vitest'
 import { seedId } from '../../scripts/lib/seed-data'
 import { signIn, type Agent } from '../support/http'
 import { ADMIN, HANDLER_A } from '../support/people'
+import { sqlRows } from '../support/db'
 import { resetDatabase } from '../support/stack'
 
 const baseUrl = inject('baseUrl')
@@ -15,11 +15,7 @@ const OPEN_A = seedId('invoice:fair-2') // seeded: 40200p open
 const PAID_A = seedId('invoice:fair-1') // seeded: paid
 const OK_CARD = '4242 4242 4242 4242' // the fake's succeeding test card (its header)
 
-async function query(sql: string, args: (string | number)[] = []) {
-  const db = libsql({ url: databaseUrl })
-  try { return (await db.execute({ sql, args })).rows }
-  finally { db.close() }
-}
+const query = (sql: string, args: (string | number)[] = []) => sqlRows<Record<string, unknown>>(databaseUrl, sql, args)
 const invoiceRow = async (id: string) => (await query('select status, paid_minor, refunded_minor from invoices where id = ?', [id]))[0]!
 const payments = async (id: string) => Number((await query('select count(*) n from invoice_payments where invoice_id = ?', [id]))[0]!.n)
 const payOnPage = (url: string) => fetch(url, {
@@ -95,7 +91,7 @@ describe('the webhook checks what was charged', () => {
       expect(await payments(OPEN_A)).toBe(0)
       // The office says what it did; the problem leaves the list of open ones; a second time is refused.
       const bad = await admin.post(`/api/payment-problems/${problem.id}/resolve`, { resolution: '' })
-      expect(bad.status).toBe(400)
+      expect(bad.status).toBe(422)
       expect((await admin.post(`/api/payment-problems/${problem.id}/resolve`, { resolution: 'Refunded with the provider.' })).status).toBe(200)
       expect((await admin.post(`/api/payment-problems/${problem.id}/resolve`, { resolution: 'Again.' })).status).toBe(409)
     })

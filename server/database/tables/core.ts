@@ -57,6 +57,8 @@ export const clients = sqliteTable('clients', {
   usualOnset: text('usual_onset'),
   status: text('status', { enum: CLIENT_STATUSES }).notNull().default('intake'),
   programmeStartedOn: text('programme_started_on'),
+  // The programme template the client's programme was started from (kept when the template is archived).
+  programmeTemplateId: text('programme_template_id'),
   notes: text('notes'),
   ...timestamps,
 }, t => [

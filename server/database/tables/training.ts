@@ -10,6 +10,8 @@ export const programmeTemplates = sqliteTable('programme_templates', {
   name: text('name').notNull(),
   isDefault: integer('is_default', { mode: 'boolean' }).notNull().default(false),
   milestones: text('milestones', { mode: 'json' }).$type<MilestoneTemplateItem[]>().notNull(),
+  // Archived: offered for no new programme; clients already on it keep their programme and fees.
+  archivedAt: integer('archived_at', { mode: 'timestamp_ms' }),
   ...timestamps,
 })
 

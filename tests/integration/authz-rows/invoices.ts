@@ -87,3 +87,12 @@ rows.push({
   prepare: async admin => ({ paymentId: String((await admin.get(`/api/invoices/${PAID_A}`)).body.payments[0].id) }),
   expect: { ...clientA(200), handlerA: { status: 200, check: r => expect(String(r.headers.get('content-type'))).toContain('application/pdf') } },
 })
+
+// Who a client's invoices are addressed to: the office only.
+rows.push({ route: 'PUT /api/clients/[id]/billing', path: `/api/clients/${CLIENT_A}/billing`, body: { billingName: 'Fairweather Family Trust', billingAddressLine: '1 Invented Row', billingTown: 'Ashcombe', billingPostcode: 'AC1 1AA', billingCountry: 'GB' }, mutates: true, expect: adminOnly(200) })
+
+// Editing a draft: the office only.
+rows.push({ route: 'PATCH /api/invoices/[id]', path: (_a, ctx) => `/api/invoices/${ctx.id}`, prepare: draftForA, body: { lines: [{ description: 'Extra session (edited)', unitMinor: 5000, quantity: 1, taxRateBasisPoints: 2000 }] }, mutates: true, expect: adminOnly(200) })
+
+// The accountant's export: the office only.
+rows.push({ route: 'GET /api/invoices/export.csv', path: '/api/invoices/export.csv?from=2000-01-01&to=2099-12-31', expect: { ...adminOnly(200), admin: { status: 200, check: r => expect(String(r.body)).toMatch(/^record,number,date/) } } })

@@ -84,3 +84,18 @@ export const rows: Row[] = [
     expect: { ...clientA(200), trainerA: { status: 200, check: r => expect(String(r.body).split('\r\n')[0]).toMatch(/^session_day,stage,/) } },
   },
 ]
+
+// Several programme templates: the office creates, duplicates and archives them; staff preview a start's billing.
+rows.push(
+  {
+    route: 'POST /api/programme-templates', path: '/api/programme-templates', mutates: true,
+    body: { name: 'Night-time alert programme', milestones: [{ name: 'Intake', handlerText: 'Getting to know you and your dog.', measured: false }] },
+    expect: adminOnly(201),
+  },
+  { route: 'POST /api/programme-templates/[id]/duplicate', path: `/api/programme-templates/${seedId('template:default')}/duplicate`, mutates: true, expect: adminOnly(201) },
+  { route: 'POST /api/programme-templates/[id]/archive', path: `/api/programme-templates/${seedId('template:default')}/archive`, body: { archived: true }, mutates: true, expect: adminOnly(200) },
+  {
+    route: 'GET /api/clients/[id]/programme-preview', path: `/api/clients/${LINDGREN}/programme-preview?templateId=${seedId('template:default')}`,
+    expect: { anonymous: 401, handlerA: 404, handlerB: 404, trainerA: { status: 200, check: r => expect(r.body.parts[0]).toMatchObject({ part: 'deposit', now: true }) }, trainerB: 404, admin: 200 },
+  },
+)

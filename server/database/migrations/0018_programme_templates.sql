@@ -1,0 +1,2 @@
+ALTER TABLE `clients` ADD `programme_template_id` text;--> statement-breakpoint
+ALTER TABLE `programme_templates` ADD `archived_at` integer;
