@@ -62,6 +62,18 @@ test('the office sets up its identity and a second programme; the trainer starts
   await shot(page, 'money-billing-preview')
   await preview.getByTestId('start-programme').click()
   await expect(page.getByTestId('milestone-0')).toBeVisible()
+
+  // The printable training report: the business's letterhead, the household, the trainer and the period; printed
+  // without the app's navigation.
+  await page.goto(`/trainer/clients/${BRENNAN}/training-report`)
+  await expect(page.getByTestId('report-letterhead')).toContainText('Larkspur Scent Partners')
+  await expect(page.getByTestId('report-facts')).toContainText('Brennan household')
+  await expect(page.getByTestId('report-facts')).toContainText('Fennel')
+  await expect(page.getByTestId('report-facts')).toContainText('Trainer:')
+  await page.emulateMedia({ media: 'print' })
+  await expect(page.getByRole('navigation', { name: 'Main' })).toBeHidden()
+  await shot(page, 'money-training-report-print')
+  await page.emulateMedia({ media: 'screen' })
   await signOut(page)
 
   // The household pays the deposit by card and gets a receipt with its PDF.
