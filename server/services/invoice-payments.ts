@@ -39,7 +39,9 @@ export async function createInvoiceCheckout(invoice: InvoiceRow) {
       line_items: [{ quantity: 1, price_data: { currency: invoice.currency.toLowerCase(), unit_amount: owed, product_data: { name: `Invoice ${invoice.number}` } } }],
       success_url: appUrl(`${back}?paid=1`),
       cancel_url: appUrl(back),
-    }, { idempotencyKey: `checkout:${invoice.id}:${invoice.paidMinor}:${owed}:${invoice.checkoutSessionId ?? 'first'}` })
+    }, { idempotencyKey: `checkout:${invoice.id}:${invoice.issuedAt?.getTime() ?? 0}:${invoice.paidMinor}:${owed}:${invoice.checkoutSessionId ?? 'first'}` })
+    // A replayed answer for a session paid meanwhile: the payment is on its way.
+    if (session.status === 'complete') paymentConflict('This invoice is already being paid: a card payment went through a moment ago and is being recorded. Reload the page in a minute.')
     if (!session.url) throw new Error('No payment page address')
     await useDb().update(invoices).set({ checkoutSessionId: session.id }).where(eq(invoices.id, invoice.id))
     return { url: session.url, sessionId: session.id }

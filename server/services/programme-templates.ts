@@ -1,6 +1,6 @@
 // Programme templates: the office creates, duplicates (with its fee schedule), renames and archives them. An archived
 // template is offered for no new programme; clients already on it keep their programme, milestones and fees.
-import { and, asc, eq, isNull, sql } from 'drizzle-orm'
+import { asc, eq, isNull, sql } from 'drizzle-orm'
 import { clients, feeSchedules, programmeTemplates } from '../database/schema'
 import type { TemplateUpdateInput } from '../../shared/schemas/training'
 import type { AuthUser } from '../utils/authz'
@@ -44,8 +44,9 @@ export async function setTemplateArchived(user: AuthUser, templateId: string, ar
   return useDb().transaction(async (tx) => {
     const [row] = await tx.update(programmeTemplates).set({ archivedAt: archived ? new Date() : null }).where(eq(programmeTemplates.id, templateId)).returning()
     if (!row) notFound('programme template')
-    const [{ n }] = await tx.select({ n: sql<number>`count(*)` }).from(clients).where(and(eq(clients.programmeTemplateId, templateId)))
-    await logAudit(tx, { actorId: user.id, action: archived ? 'programme-template.archived' : 'programme-template.restored', entityType: 'programme-template', entityId: templateId, data: { name: row.name, clientsKeepingIt: Number(n) } })
-    return { ...row, clientsUsing: Number(n) }
+    const [using] = await tx.select({ n: sql<number>`count(*)` }).from(clients).where(eq(clients.programmeTemplateId, templateId))
+    const clientsUsing = Number(using?.n ?? 0)
+    await logAudit(tx, { actorId: user.id, action: archived ? 'programme-template.archived' : 'programme-template.restored', entityType: 'programme-template', entityId: templateId, data: { name: row.name, clientsKeepingIt: clientsUsing } })
+    return { ...row, clientsUsing }
   })
 }

@@ -45,6 +45,8 @@ const UPLOAD_ROUTES = [
   /^\/api\/homework-uploads(\/[^/]+)?$/,
   // A message may carry a photo or a PDF (multipart); without one it is JSON, checked by the route itself.
   /^\/api\/clients\/[^/]+\/messages$/,
+  // The business's logo (multipart, 512 KB).
+  /^\/api\/business-logo$/,
 ]
 // Routes anyone can call without signing in: a small limit.
 const AUTH_ROUTES = [/^\/api\/auth\//, /^\/api\/invitations\/[^/]+\/accept$/]

@@ -139,7 +139,7 @@ export const outbox = sqliteTable('outbox', {
   // A message with a key is written at most once (reminders, notices that must not repeat).
   dedupeKey: text('dedupe_key'),
   // Attachments by reference ([{ kind: 'invoice-pdf', id }]), rendered when the message is sent (server/services/outbox.ts).
-  attachments: text('attachments', { mode: 'json' }).$type<Array<{ kind: 'invoice-pdf' | 'appointment-ics', id: string }>>(),
+  attachments: text('attachments', { mode: 'json' }).$type<Array<{ kind: 'invoice-pdf' | 'receipt-pdf' | 'appointment-ics', id: string }>>(),
   // A single-use link by reference ({ kind: 'password-reset' | 'invitation', id }): its token is minted when the
   // message is sent and only its hash is stored, so the outbox never holds a usable link.
   secretLink: text('secret_link', { mode: 'json' }).$type<{ kind: 'password-reset' | 'invitation', id: string }>(),
