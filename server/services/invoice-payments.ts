@@ -1,6 +1,7 @@
 // Card payments for invoices through Stripe Checkout, and the webhook that records them: verified, processed once,
 // tolerant of events arriving late or twice, the payment and the invoice's new state in one transaction.
-import { eq } from 'drizzle-orm'
+import { randomUUID } from 'node:crypto'
+import { eq, sql } from 'drizzle-orm'
 import type Stripe from 'stripe'
 import { clients, invoicePayments, invoices, paymentProblems, stripeEvents } from '../database/schema'
 import { balanceDue } from '../../shared/utils/invoices'
@@ -30,6 +31,10 @@ export async function createInvoiceCheckout(invoice: InvoiceRow) {
       if (open.status === 'open' && open.amount_total === owed && open.url) return { url: open.url, sessionId: open.id }
       if (open.status === 'open') await stripe.checkout.sessions.expire(open.id)
     }
+    // Every payer shares one key per invoice and amount: a nonce written once per invoice (kept if already there).
+    const db = useDb()
+    await db.update(invoices).set({ checkoutNonce: sql`coalesce(${invoices.checkoutNonce}, ${randomUUID()})` }).where(eq(invoices.id, invoice.id))
+    const [{ nonce } = { nonce: null }] = await db.select({ nonce: invoices.checkoutNonce }).from(invoices).where(eq(invoices.id, invoice.id))
     const back = `/invoices/${invoice.id}`
     const session = await stripe.checkout.sessions.create({
       mode: 'payment',
@@ -39,11 +44,11 @@ export async function createInvoiceCheckout(invoice: InvoiceRow) {
       line_items: [{ quantity: 1, price_data: { currency: invoice.currency.toLowerCase(), unit_amount: owed, product_data: { name: `Invoice ${invoice.number}` } } }],
       success_url: appUrl(`${back}?paid=1`),
       cancel_url: appUrl(back),
-    }, { idempotencyKey: `checkout:${invoice.id}:${invoice.issuedAt?.getTime() ?? 0}:${invoice.paidMinor}:${owed}:${invoice.checkoutSessionId ?? 'first'}` })
+    }, { idempotencyKey: `checkout:${invoice.id}:${nonce}:${invoice.paidMinor}:${owed}:${invoice.checkoutSessionId ?? 'first'}` })
     // A replayed answer for a session paid meanwhile: the payment is on its way.
     if (session.status === 'complete') paymentConflict('This invoice is already being paid: a card payment went through a moment ago and is being recorded. Reload the page in a minute.')
     if (!session.url) throw new Error('No payment page address')
-    await useDb().update(invoices).set({ checkoutSessionId: session.id }).where(eq(invoices.id, invoice.id))
+    await db.update(invoices).set({ checkoutSessionId: session.id }).where(eq(invoices.id, invoice.id))
     return { url: session.url, sessionId: session.id }
   }
   catch (err) {

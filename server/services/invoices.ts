@@ -140,6 +140,7 @@ function present(inv: InvoiceRow, today: string, householdName?: string) {
     refundDueMinor: refundDue(inv),
     // The provider's session is the office's business, never shown to a household; the frozen record is the PDF's.
     checkoutSessionId: undefined,
+    checkoutNonce: undefined,
     frozen: undefined,
   }
 }

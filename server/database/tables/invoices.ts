@@ -41,6 +41,8 @@ export const invoices = sqliteTable('invoices', {
   lastRemindedAt: integer('last_reminded_at', { mode: 'timestamp_ms' }),
   // The one card checkout open for this invoice, whoever asked for it: reused while open, so it is paid once.
   checkoutSessionId: text('checkout_session_id'),
+  // Written once, the first time anyone asks to pay by card: part of the idempotency key every payer shares.
+  checkoutNonce: text('checkout_nonce'),
   // Money paid back (an overpayment, or the refund a credit note owes).
   refundedMinor: integer('refunded_minor').notNull().default(0),
   // The document as issued (seller, buyer, lines, rates, totals, wording), frozen at issue: its PDF is drawn from
