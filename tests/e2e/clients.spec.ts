@@ -28,7 +28,7 @@ test('a trainer creates a client through the intake form and the handler is invi
   const mail = await waitForMail(process.env.E2E_MAIL_URL!, 'noa.penrose@example.test', 'Penrose household')
   expect(mail.text).toContain('/invitation/')
   // Back on the roster, the new household is there.
-  await page.getByRole('link', { name: '← Roster' }).click()
+  await page.getByRole('link', { name: 'Roster', exact: true }).first().click()
   await page.getByLabel('Search clients').fill('Penrose')
   await expect(page.getByTestId('client-table')).toContainText('Penrose household')
 })

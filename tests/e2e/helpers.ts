@@ -48,3 +48,17 @@ export async function waitForWorker(page: Page) {
   if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload()
   await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 20_000 }).toBe(true)
 }
+
+/**
+ * The serious and critical WCAG 2.2 A/AA violations axe-core finds on the page as it is now, one line per rule with
+ * up to three of the elements it names. An empty list is a pass (the tour fails on anything else).
+ */
+export async function accessibilityProblems(page: Page): Promise<string[]> {
+  const { default: AxeBuilder } = await import('@axe-core/playwright')
+  const result = await new AxeBuilder({ page })
+    .withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa', 'best-practice'])
+    .analyze()
+  return result.violations
+    .filter(v => v.impact === 'serious' || v.impact === 'critical')
+    .map(v => `${v.id} (${v.impact}, ${v.nodes.length}×): ${v.nodes.slice(0, 3).map(n => n.target.join(' ')).join(' | ')}`)
+}
