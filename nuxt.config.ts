@@ -8,7 +8,7 @@ export default defineNuxtConfig({
   // Separate build folders let several checkouts or helpers build side by side (default .nuxt and .output).
   buildDir: process.env.NUXT_BUILD_DIR || '.nuxt',
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils', 'nuxt-security', '@vite-pwa/nuxt'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils', 'nuxt-security', '@vite-pwa/nuxt', '@nuxt/eslint'],
   css: ['@fontsource-variable/inter/index.css', '~/assets/css/main.css'],
   tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
   app: {

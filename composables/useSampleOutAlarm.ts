@@ -31,7 +31,7 @@ export function useSampleOutAlarm() {
     try {
       const reg = await navigator.serviceWorker?.getRegistration()
       if (reg) await reg.showNotification(title, options)
-      else new Notification(title, options) // eslint-disable-line no-new
+      else new Notification(title, options)
     }
     catch { /* the on-screen alarm stays */ }
   }

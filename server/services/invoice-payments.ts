@@ -1,6 +1,6 @@
 // Card payments for invoices through Stripe Checkout, and the webhook that records them: verified, processed once,
 // tolerant of events arriving late or twice, the payment and the invoice's new state in one transaction.
-import { and, eq, sql } from 'drizzle-orm'
+import { eq } from 'drizzle-orm'
 import type Stripe from 'stripe'
 import { clients, invoicePayments, invoices, stripeEvents } from '../database/schema'
 import { balanceDue } from '../../shared/utils/invoices'

@@ -3,7 +3,7 @@
 // Pure logic only: no database, no HTTP, no Nuxt. Calendar dates are 'YYYY-MM-DD' strings, compared and counted
 // as calendar days (never as instants), so the answers do not depend on the server's time zone.
 import { countOf, formatDay } from './format'
-import { DOG_SEXES, DOG_SOURCES, DOG_STATUSES } from './enums'
+import type { DOG_SEXES, DOG_SOURCES, DOG_STATUSES } from './enums'
 
 export type DogStatus = (typeof DOG_STATUSES)[number]
 export type DogSource = (typeof DOG_SOURCES)[number]
