@@ -288,6 +288,63 @@ export function checkCollection(
   }
 }
 
+/** One exposure still too recent to collect a control sample now. */
+export interface WaitReason {
+  rule: string
+  /** "eating", "drinking water"… */
+  what: string
+  /** When collecting is clear of it. */
+  clearAt: Date
+}
+
+export interface CollectionWait {
+  /** Whole minutes still to wait (rounded up); 0 when collecting now keeps every limit. */
+  minutes: number
+  /** When collecting keeps every limit (now when there is nothing to wait for). */
+  readyAt: Date
+  /** The exposures still too recent, the one clear last first. */
+  reasons: WaitReason[]
+}
+
+/**
+ * How long to wait before collecting, from the checklist answered first (before any roll goes in the mouth).
+ *
+ * Control samples: each exposure is clear `limit` minutes after it last happened (policy.fastingMinutes,
+ * policy.waterFreeMinutes, the same limits checkCollection applies); an exposure the person is not sure about
+ * counts as just now (`answeredAt`), so waiting its whole limit makes it certain. Eaten 20 minutes ago with a
+ * 45-minute limit: wait 25 more minutes.
+ * Target samples never wait: the episode will not, and collecting early matters most (a late or medicated target is
+ * flagged as before, by targetTiming).
+ */
+export function collectionWait(
+  input: { kind: SampleKind, answeredAt: Date, exposures: Partial<Record<Exposure, Date | null>>, unknown?: readonly Exposure[] },
+  policy: SamplePolicy = DEFAULT_SAMPLE_POLICY,
+  now: Date = input.answeredAt,
+): CollectionWait {
+  const t = now.getTime()
+  if (input.kind === 'target') return { minutes: 0, readyAt: new Date(t), reasons: [] }
+  const unknown = new Set(input.unknown ?? [])
+  const reasons: WaitReason[] = []
+  for (const key of EXPOSURES) {
+    const spec = EXPOSURE_RULES[key]
+    const value = input.exposures[key]
+    const last = unknown.has(key) ? input.answeredAt : isValidDate(value) ? value : null
+    if (!last) continue
+    const clearAt = last.getTime() + spec.limit(policy) * MINUTE_MS
+    if (clearAt > t) reasons.push({ rule: spec.rule, what: spec.what, clearAt: new Date(clearAt) })
+  }
+  reasons.sort((a, b) => b.clearAt.getTime() - a.clearAt.getTime())
+  const readyAt = reasons[0]?.clearAt.getTime() ?? t
+  return { minutes: Math.ceil((readyAt - t) / MINUTE_MS), readyAt: new Date(readyAt), reasons }
+}
+
+/** "Wait 25 more minutes" (null when there is nothing to wait for). */
+export function waitText(wait: CollectionWait): string | null {
+  if (wait.minutes <= 0) return null
+  return `Wait ${plural(wait.minutes, 'more minute', 'more minutes')}`
+}
+
+
 // ---------------------------------------------------------------------------------------------------------------
 // Samples and uses
 
@@ -867,7 +924,7 @@ export function stockForecast(
 
 export const BAG_CODE_ALPHABET = 'ABCDEFGHJKMNPQRSTUVWXYZ23456789'
 export const BAG_CODE_LENGTH = 4
-const BAG_CODE_PREFIX: Record<SampleKind, string> = { target: 'T', control: 'C' }
+export const BAG_CODE_PREFIX: Record<SampleKind, string> = { target: 'T', control: 'C' }
 
 /** A source of random numbers in [0, 1), like Math.random. */
 export type RandomSource = () => number
@@ -916,9 +973,11 @@ export function uniqueBagCode(
   throw new RangeError(`No free bag code found in ${maxTries} tries.`)
 }
 
-const BAG_CODE_RE = new RegExp(`^([TC])-[${BAG_CODE_ALPHABET}]{${BAG_CODE_LENGTH}}$`)
+// Codes made on the server have BAG_CODE_LENGTH characters; codes made on a phone one more (shared/utils/bag-codes.ts),
+// so the two can never be the same code.
+const BAG_CODE_RE = new RegExp(`^([TC])-[${BAG_CODE_ALPHABET}]{${BAG_CODE_LENGTH},${BAG_CODE_LENGTH + 1}}$`)
 
-/** True for a well-formed bag code (upper case), optionally of the given kind. */
+/** True for a well-formed bag code (upper case, made on the server or on a phone), optionally of the given kind. */
 export function isBagCode(value: string, kind?: SampleKind): boolean {
   const m = BAG_CODE_RE.exec(value)
   if (!m) return false

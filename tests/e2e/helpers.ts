@@ -28,19 +28,25 @@ export async function shot(page: Page, name: string) {
   if (process.env.E2E_SCREENSHOTS) await page.screenshot({ path: `${process.env.E2E_SCREENSHOTS}/${name}.png`, fullPage: true })
 }
 
-/** The records waiting in the phone's outbox (IndexedDB "forescent-outbox", see stores/outbox.ts). */
-export async function outboxItems(page: Page): Promise<{ key: string, label: string, tappedAt: string, url: string, refused?: { message: string } }[]> {
-  return page.evaluate(() => new Promise((ok, fail) => {
-    const open = indexedDB.open('forescent-outbox')
+/** What an idb-keyval store of the page holds: every value, or the one under `key`. */
+export async function readIndexedDb<T>(page: Page, database: string, store: string, key?: string): Promise<T> {
+  return page.evaluate(({ database, store, key }) => new Promise((ok, fail) => {
+    const open = indexedDB.open(database)
     open.onerror = () => fail(open.error)
-    open.onupgradeneeded = () => open.result.createObjectStore('items')
+    open.onupgradeneeded = () => open.result.createObjectStore(store)
     open.onsuccess = () => {
       const db = open.result
-      const req = db.transaction('items', 'readonly').objectStore('items').getAll()
+      const os = db.transaction(store, 'readonly').objectStore(store)
+      const req = key === undefined ? os.getAll() : os.get(key)
       req.onsuccess = () => { ok(req.result); db.close() }
       req.onerror = () => fail(req.error)
     }
-  }))
+  }), { database, store, key }) as Promise<T>
+}
+
+/** The records waiting in the phone's outbox (IndexedDB "forescent-outbox", see stores/outbox.ts). */
+export function outboxItems(page: Page) {
+  return readIndexedDb<{ key: string, label: string, tappedAt: string, url: string, refused?: { message: string } }[]>(page, 'forescent-outbox', 'items')
 }
 
 /** Waits until the service worker controls the page (one reload after its first install). */
