@@ -11,6 +11,9 @@ export default {
     './error.vue',
     './shared/**/*.ts',
   ],
+  // Dark appearance: the `dark` class on <html> (plugins/appearance.client.ts: the phone's setting or the person's
+  // choice); the dark values of the palette below are applied in assets/css/dark.css.
+  darkMode: 'class',
   theme: {
     extend: {
       // Text colours meet WCAG 2.2 AA (4.5:1) on every surface they are used on (white, sand-50…200, the tinted
@@ -28,6 +31,11 @@ export default {
         amber: { 100: '#fdf0d2', 300: '#f6cf72', 500: '#e0a21d', 700: '#7a5408' },
         clay: { 100: '#f9e1dc', 300: '#eba597', 500: '#a8432e', 700: '#8f3424' },
         ink: { DEFAULT: '#1d2422', soft: '#4a5653', faint: '#5a6562' },
+        // Dark appearance only (assets/css/dark.css): surfaces from darkest to lightest, and the text on them.
+        night: {
+          950: '#0e1715', 900: '#15211e', 800: '#1c2b27', 700: '#263833', 600: '#344a44', 500: '#4a625b',
+          ink: '#e8eeec', soft: '#b8c6c2', faint: '#9aaaa5',
+        },
       },
       fontFamily: {
         sans: ['"Inter Variable"', 'system-ui', 'sans-serif'],
