@@ -32,7 +32,7 @@ async function walk(page: Page, paths: string[], dark: boolean, label: string) {
   const problems: string[] = []
   for (const path of paths) {
     await page.goto(path)
-    await expect(page.locator('h1').first()).toBeVisible()
+    await expect(page.locator('main')).toBeVisible()
     expect(await page.evaluate(() => document.documentElement.classList.contains('dark')), path).toBe(dark)
     await page.waitForLoadState('networkidle')
     problems.push(...await contrastProblems(page, path))
