@@ -37,7 +37,7 @@ export function useTimedNotice() {
     try {
       const reg = await navigator.serviceWorker?.getRegistration()
       if (reg) await reg.showNotification(notice.title, options)
-      else new Notification(notice.title, options) // eslint-disable-line no-new
+      else new Notification(notice.title, options)
     }
     catch { /* the on-screen notice stays */ }
   }

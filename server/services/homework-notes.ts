@@ -1,7 +1,8 @@
 // Homework notes: the household's few words about each practice, kept on the phone until there is a signal
 // (docs/offline.md), read by the trainer beside the videos.
 import { asc, eq, inArray } from 'drizzle-orm'
-import { homeworkAssignments, homeworkNotes, users } from '../database/schema'
+import { homeworkNotes, users } from '../database/schema'
+import type { homeworkAssignments } from '../database/schema'
 import type { HomeworkNoteInput } from '../../shared/schemas/homework-notes'
 import { TAPPED_AHEAD_LIMIT_MS } from '../../shared/utils/request-keys'
 import type { AuthUser } from '../utils/authz'
