@@ -341,7 +341,7 @@ export function collectionWait(
 /** "Wait 25 more minutes" (null when there is nothing to wait for). */
 export function waitText(wait: CollectionWait): string | null {
   if (wait.minutes <= 0) return null
-  return `Wait ${plural(wait.minutes, 'more minute', 'more minutes')}`
+  return `Wait ${countOf(wait.minutes, 'more minute', 'more minutes')}`
 }
 
 
