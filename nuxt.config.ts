@@ -1,6 +1,9 @@
 import { cpSync, existsSync } from 'node:fs'
 import { resolve } from 'node:path'
 
+// Sets html.dark before the page paints: the person's choice on this device (localStorage), else the phone's setting.
+const APPEARANCE_SCRIPT = `try{var m=localStorage.getItem('forescent-appearance');if(m==='dark'||(m!=='light'&&matchMedia('(prefers-color-scheme: dark)').matches))document.documentElement.classList.add('dark')}catch(e){}`
+
 // Forescent: Nuxt at the repository root (no app/ folder, so the root is the source folder).
 export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
@@ -8,8 +11,8 @@ export default defineNuxtConfig({
   // Separate build folders let several checkouts or helpers build side by side (default .nuxt and .output).
   buildDir: process.env.NUXT_BUILD_DIR || '.nuxt',
   telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils', 'nuxt-security', '@vite-pwa/nuxt'],
-  css: ['@fontsource-variable/inter/index.css', '~/assets/css/main.css'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'pinia-plugin-persistedstate/nuxt', 'nuxt-auth-utils', 'nuxt-security', '@vite-pwa/nuxt', '@nuxt/eslint'],
+  css: ['@fontsource-variable/inter/index.css', '~/assets/css/main.css', '~/assets/css/dark.css'],
   tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
   app: {
     head: {
@@ -20,6 +23,9 @@ export default defineNuxtConfig({
         { name: 'theme-color', content: '#1f4d45' },
       ],
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }, { rel: 'apple-touch-icon', href: '/apple-touch-icon.png' }],
+      // The dark appearance before the first paint (no light flash at night): the choice kept on this device, else the
+      // phone's setting. plugins/appearance.client.ts keeps it up to date afterwards.
+      script: [{ innerHTML: APPEARANCE_SCRIPT, tagPosition: 'head' }],
     },
   },
   // Installable on a phone's home screen, and the app's screens open with no signal after one visit (docs/offline.md).

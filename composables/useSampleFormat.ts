@@ -2,11 +2,10 @@
 export function useSampleFormat() {
   const { user } = useUserSession()
   const timeZone = computed(() => user.value?.timeZone || 'Europe/London')
-  const toDate = (v: string | Date | null | undefined) => (v ? new Date(v) : null)
   return {
     timeZone,
-    day: (v: string | Date | null | undefined) => toDate(v)?.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: timeZone.value }) ?? '—',
-    dayTime: (v: string | Date | null | undefined) => toDate(v)?.toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', timeZone: timeZone.value }) ?? '—',
+    day: (v: string | Date | null | undefined) => formatInstant(v, 'day', timeZone.value),
+    dayTime: (v: string | Date | null | undefined) => formatInstant(v, 'day-time', timeZone.value),
     ageDays: (v: string | Date, now: string | Date) => Math.max(0, Math.floor((new Date(now).getTime() - new Date(v).getTime()) / 86_400_000)),
   }
 }

@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// The one test command (README "Quick start", and .ci/run): type-check, build, unit + integration tests against
+// The one test command (README "Quick start", and .ci/run): lint, type-check, build, unit + integration tests against
 // the built server, then the Chromium end-to-end tests. Each step starts and stops the services it needs.
 import { spawnSync } from 'node:child_process'
 import { existsSync } from 'node:fs'
@@ -33,6 +33,7 @@ function ensureChromium() {
 
 const only = process.argv[2] // optional: unit | integration | e2e
 ensureChromium()
+if (!only) run('Lint (ESLint with the Nuxt rules)', 'npx', ['eslint', '.'])
 if (!only) run('Type-check (vue-tsc through nuxi typecheck)', 'npx', ['nuxi', 'typecheck'])
 if (!only || only !== 'unit') {
   if (process.env.SKIP_BUILD !== '1') run('Build the server (nuxt build)', 'npx', ['nuxi', 'build'], { NODE_ENV: 'production' })

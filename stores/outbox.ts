@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 import { createStore, del, entries, set, type UseStore } from 'idb-keyval'
-import { classifyAnswer, outboxSummary, sendOrder, resolveRefs, type OutboxItem, type OutboxMethod } from '~/shared/utils/outbox'
+import { classifyAnswer, dependentsOf, outboxSummary, sendOrder, resolveRefs, type OutboxItem, type OutboxMethod } from '~/shared/utils/outbox'
 import { REQUEST_KEY_HEADER, TAPPED_AT_HEADER } from '~/shared/utils/request-keys'
 
 // One outbox for every record made on the phone (diary entries and their edits, training sessions and their trials,
@@ -22,11 +22,18 @@ const ID_KEEP_MS = 14 * 86_400_000
 /** A send with no answer after this long is tried again later (a weak signal; common practice). */
 const SEND_TIMEOUT_MS = 20_000
 
-export interface NewRecord { key?: string, label: string, method: OutboxMethod, url: string, body?: unknown, tappedAt?: string }
+export interface NewRecord { key?: string, label: string, method: OutboxMethod, url: string, body?: unknown, tappedAt?: string, href?: string }
 export interface SentRecord { key: string, result: unknown }
 
 const statusOf = (e: unknown) => (e as { statusCode?: number, status?: number }).statusCode ?? (e as { status?: number }).status
 const dataOf = (e: unknown) => (e as { data?: { data?: unknown } }).data?.data
+const rulesOf = (d: unknown) => {
+  const x = d as { rules?: unknown, fieldErrors?: unknown } | null | undefined
+  return {
+    ...(Array.isArray(x?.rules) ? { rules: x.rules.map(String) } : {}),
+    ...(x?.fieldErrors && typeof x.fieldErrors === 'object' ? { fieldErrors: x.fieldErrors as Record<string, string> } : {}),
+  }
+}
 
 let flushing: Promise<void> | null = null
 let seq = Date.now()
@@ -73,7 +80,9 @@ export const useOutboxStore = defineStore('outbox', {
       const now = new Date().toISOString()
       const item: OutboxItem = {
         key: record.key ?? crypto.randomUUID(), userId, label: record.label, method: record.method, url: record.url,
-        body: record.body, tappedAt: record.tappedAt ?? now, queuedAt: now, seq: seq++, attempts: 0,
+        // As it will travel (dates as ISO strings), so what waits is exactly what is sent.
+        body: record.body === undefined ? undefined : JSON.parse(JSON.stringify(record.body)), tappedAt: record.tappedAt ?? now, queuedAt: now, seq: seq++, attempts: 0,
+        ...(record.href ? { href: record.href } : {}),
       }
       await this.save(item)
       this.items = [...this.items, item]
@@ -89,15 +98,27 @@ export const useOutboxStore = defineStore('outbox', {
       catch { /* see save() */ }
     },
     /** Changes a waiting record's body (the person fixes a refused one, or edits one not sent yet). */
-    async update(key: string, body: unknown) {
+    async update(key: string, body: unknown, label?: string) {
       const item = this.items.find(i => i.key === key)
       if (!item) return
-      const next = { ...item, body, refused: undefined }
+      const next = { ...item, body, refused: undefined, ...(label ? { label } : {}) }
       this.items = this.items.map(i => (i.key === key ? next : i))
       await this.save(next)
     },
+    /** Discards a record and the records that need it (they could never be sent without it). */
     async discard(key: string) {
+      for (const k of dependentsOf(this.items, key)) await this.remove(k)
       await this.remove(key)
+    },
+    /** How many waiting records need this one (said before discarding it). */
+    dependents(key: string): number {
+      return dependentsOf(this.items, key).length
+    },
+    /** The server's id for a record sent earlier, learnt another way (a record moved from the old trial queue). */
+    async learnId(key: string, id: string) {
+      this.ids = { ...this.ids, [key]: { id, at: Date.now() } }
+      try { await set(key, { id, at: Date.now() }, stores().idsDb) }
+      catch { /* see save() */ }
     },
     async retry(key: string) {
       const item = this.items.find(i => i.key === key)
@@ -126,6 +147,7 @@ export const useOutboxStore = defineStore('outbox', {
         let result: unknown = null
         let message = ''
         let status: number | undefined
+        let details = {}
         try {
           result = await $fetch<unknown>(url as string, {
             method: item.method, body: item.method === 'DELETE' ? undefined : (body as Record<string, unknown>),
@@ -138,6 +160,7 @@ export const useOutboxStore = defineStore('outbox', {
           status = statusOf(e)
           kind = classifyAnswer(status, item.method, dataOf(e))
           message = apiErrorMessage(e, 'The server refused this record.')
+          details = rulesOf(dataOf(e))
         }
         if (kind === 'retry') {
           this.items = this.items.map(i => (i.key === item.key ? tried : i))
@@ -146,7 +169,7 @@ export const useOutboxStore = defineStore('outbox', {
           return
         }
         if (kind === 'refused') {
-          const refused = { ...tried, refused: { status: status ?? 0, message } }
+          const refused = { ...tried, refused: { status: status ?? 0, message, ...details } }
           this.items = this.items.map(i => (i.key === item.key ? refused : i))
           await this.save(refused)
           continue

@@ -10,10 +10,8 @@ export const usePadSessionsStore = defineStore('pad-sessions', {
   state: () => ({ open: {} as Record<string, OpenPadSession> }),
   actions: {
     setOpen(clientId: string, session: OpenPadSession | null) {
-      const next = { ...this.open }
-      if (session) next[clientId] = session
-      else delete next[clientId]
-      this.open = next
+      const others = Object.fromEntries(Object.entries(this.open).filter(([id]) => id !== clientId))
+      this.open = session ? { ...others, [clientId]: session } : others
     },
   },
   persist: { pick: ['open'], storage: piniaPluginPersistedstate.localStorage() },

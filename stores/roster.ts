@@ -20,7 +20,9 @@ export const ROSTER_COLUMNS = [
 export type RosterColumnId = (typeof ROSTER_COLUMNS)[number]['id']
 
 interface RosterPrefs { hidden: RosterColumnId[], pageSize: number }
-const DEFAULT_PREFS: RosterPrefs = { hidden: [], pageSize: 25 }
+// Hidden until chosen: the condition (also a filter above the table) and days in programme (a sort on phones), so the
+// table fits a 1366-pixel laptop screen beside the navigation.
+const DEFAULT_PREFS: RosterPrefs = { hidden: ['condition', 'started'], pageSize: 25 }
 
 /** Roster column choices and page size, kept per signed-in person and persisted in a cookie. */
 export const useRosterStore = defineStore('roster', {

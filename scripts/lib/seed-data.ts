@@ -66,7 +66,7 @@ export const CLIENTS: ClientSeed[] = [
   { key: 'ferris', trainer: 'trainer3', household: 'Ferris household', person: 'Elliot Ferris', condition: 'seizure', conditionDetail: 'Epilepsy, age 9', status: 'active', startedDaysAgo: 98, earlySigns: 'Staring spells before larger seizures.', frequency: 'About 5 a month', onset: 'Early morning', town: 'Kestle Bay', handlers: [{ key: 'h-ferris', relationship: 'parent' }], dog: { name: 'Wren', breed: 'Australian Shepherd', sex: 'female', ageDays: 700, source: 'programme-bred', status: 'in-training' } },
 ]
 
-const TABLES_CHILD_FIRST = ['outbox', 'audit_log', ...SCHEDULE_TABLES_CHILD_FIRST, 'recovery_codes', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...HOMEWORK_TABLES_CHILD_FIRST, ...INVOICE_TABLES_CHILD_FIRST, ...TRAINING_TABLES_CHILD_FIRST, ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
+const TABLES_CHILD_FIRST = ['outbox', 'audit_log', 'homework_notes', 'bag_code_prefixes', ...SCHEDULE_TABLES_CHILD_FIRST, 'recovery_codes', 'password_resets', 'invitations', 'business_settings', 'documents', 'dog_photos', ...HOMEWORK_TABLES_CHILD_FIRST, ...INVOICE_TABLES_CHILD_FIRST, ...TRAINING_TABLES_CHILD_FIRST, ...SAMPLE_TABLES_CHILD_FIRST, ...DIARY_TABLES_CHILD_FIRST, ...DOG_TABLES_CHILD_FIRST, 'dogs', 'client_handlers', 'clients', 'users'] as const
 
 /**
  * Empties every table and writes the demo scenario, in one transaction. `filesDir` is the local file storage the

@@ -2,7 +2,7 @@
 import type { H3Event } from 'h3'
 import { and, asc, desc, eq, inArray, ne } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/sqlite-core'
-import { clients, dogAssessments, dogHealthRecords, dogStatusChanges, dogs, users } from '../database/schema'
+import { clients, dogAssessments, dogHealthRecords, dogPhotos, dogStatusChanges, dogs, users } from '../database/schema'
 import type { AssessmentInput, DogCreateInput, DogStatusChangeInput, DogUpdateInput, HealthRecordInput, HealthRecordUpdateInput } from '../../shared/schemas/dogs'
 import {
   assessmentSummary, dogAge, healthRecordStates, healthSummary, pastDayProblem, statusChangeProblems, todayInTimeZone,
@@ -74,7 +74,7 @@ function sortHealth<T extends HealthRow & { superseded: boolean }>(rows: T[]): T
 export async function getDogProfile(user: AuthUser, dog: DogRow, client: ClientRow) {
   const db = useDb()
   const today = dogToday(user)
-  const [history, health, assessments] = await Promise.all([
+  const [history, health, assessments, photoVersions] = await Promise.all([
     db.select({
       id: dogStatusChanges.id, status: dogStatusChanges.status, effectiveOn: dogStatusChanges.effectiveOn,
       note: dogStatusChanges.note, createdAt: dogStatusChanges.createdAt, changedByName: changedBy.name,
@@ -84,6 +84,7 @@ export async function getDogProfile(user: AuthUser, dog: DogRow, client: ClientR
     db.select({ assessment: dogAssessments, assessorName: assessor.name }).from(dogAssessments)
       .leftJoin(assessor, eq(assessor.id, dogAssessments.assessorId))
       .where(eq(dogAssessments.dogId, dog.id)).orderBy(desc(dogAssessments.assessedOn), desc(dogAssessments.createdAt)),
+    dogPhotoVersions([dog.id]),
   ])
   const states = healthRecordStates(health, today)
   return {
@@ -91,6 +92,7 @@ export async function getDogProfile(user: AuthUser, dog: DogRow, client: ClientR
     dog,
     client: { id: client.id, householdName: client.householdName, personName: client.personName },
     age: dogAge(dog.dateOfBirth, today),
+    photoVersion: photoVersions.get(dog.id) ?? null,
     statusSince: history.at(-1)?.effectiveOn ?? null,
     statusHistory: history,
     healthRecords: sortHealth(health.map(r => ({ ...r, ...states.get(r.id)! }))),
@@ -105,11 +107,27 @@ export async function listClientDogs(user: AuthUser, clientId: string) {
   const db = useDb()
   const today = dogToday(user)
   const rows = await db.select().from(dogs).where(eq(dogs.clientId, clientId)).orderBy(asc(dogs.createdAt), asc(dogs.id))
-  const health = rows.length
-    ? await db.select().from(dogHealthRecords).where(inArray(dogHealthRecords.dogId, rows.map(d => d.id)))
-    : []
+  const ids = rows.map(d => d.id)
+  const [health, photoVersions] = rows.length
+    ? await Promise.all([db.select().from(dogHealthRecords).where(inArray(dogHealthRecords.dogId, ids)), dogPhotoVersions(ids)])
+    : [[], new Map<string, number>()]
   const summary = healthSummary(health, today)
-  return rows.map(d => ({ ...d, age: dogAge(d.dateOfBirth, today), health: summary[d.id] ?? EMPTY_HEALTH_SUMMARY }))
+  return rows.map(d => ({
+    ...d,
+    age: dogAge(d.dateOfBirth, today),
+    health: summary[d.id] ?? EMPTY_HEALTH_SUMMARY,
+    photoVersion: photoVersions.get(d.id) ?? null,
+  }))
+}
+
+/**
+ * Which of these dogs have a photo, as the time it was last replaced (milliseconds): the page asks for a photo only
+ * when there is one, and the version in its address lets the browser keep it until it changes.
+ */
+async function dogPhotoVersions(dogIds: string[]): Promise<Map<string, number>> {
+  const rows = await useDb().select({ dogId: dogPhotos.dogId, updatedAt: dogPhotos.updatedAt }).from(dogPhotos)
+    .where(inArray(dogPhotos.dogId, dogIds))
+  return new Map(rows.map(r => [r.dogId, r.updatedAt.getTime()]))
 }
 
 // ---------------------------------------------------------------------------------------------------------------

@@ -229,11 +229,13 @@ export async function listClientHomework(user: AuthUser, client: ClientRow) {
     .leftJoin(users, eq(users.id, homeworkAssignments.setById))
     .where(eq(homeworkAssignments.clientId, client.id))
   const videos = await homeworkVideosWithComments(db, rows.map(r => r.assignment.id))
+  const notes = await homeworkNotesOf(rows.map(r => r.assignment.id))
   const out = rows.map(({ assignment, milestoneName, setByName }) => {
     const own = videos.filter(v => v.assignmentId === assignment.id)
     return {
       ...assignment, milestoneName, setByName, due: assignmentDue(assignment, today),
       completion: assignmentCompletion(assignment.expectedVideos, own), videos: own,
+      notes: notes.filter(n => n.assignmentId === assignment.id),
       toReview: own.filter(v => v.reviewedAt === null).length,
     }
   })
@@ -254,10 +256,12 @@ export async function getHomeworkAssignmentDetail(user: AuthUser, assignment: As
     .leftJoin(dogs, eq(dogs.id, homeworkAssignments.dogId))
     .where(eq(homeworkAssignments.id, assignment.id)).limit(1)
   const videos = await homeworkVideosWithComments(db, [assignment.id])
+  const notes = await listHomeworkNotes(assignment.id)
   const policy = await readSetting(HOMEWORK_UPLOAD_POLICY_KEY, homeworkUploadPolicySchema, HOMEWORK_UPLOAD_POLICY_DEFAULTS, db)
   return {
     ...assignment, ...extra, due: assignmentDue(assignment, today), today,
-    completion: assignmentCompletion(assignment.expectedVideos, videos), videos,
+    completion: assignmentCompletion(assignment.expectedVideos, videos), videos, notes,
+    canAddNotes: assignment.state !== 'cancelled',
     client: { id: client.id, householdName: client.householdName },
     canUpload: user.role === 'handler' && assignment.state === 'open',
     maxUploadBytes: megabytesToBytes(policy.maxUploadMegabytes),

@@ -9,7 +9,6 @@ import { addDays, balanceDue, daysOverdue, invoiceTotalsForIssue } from '../../s
 import { formatMoney, lineTotals } from '../../shared/utils/money'
 import { todayInTimeZone } from '../../shared/utils/dogs'
 import type { AuthUser } from '../utils/authz'
-import type { Tx } from '../utils/db'
 import { issueDraftInTx, readInvoiceSettings } from './invoices'
 import { householdHandlers } from './clients'
 

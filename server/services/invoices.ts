@@ -2,7 +2,7 @@
 // each change in one transaction with its audit entry and its e-mail (outbox).
 import type { H3Event } from 'h3'
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm'
-import { clients, invoiceCounters, invoiceLines, invoicePayments, invoiceRefunds, invoices, users } from '../database/schema'
+import { clients, invoiceCounters, invoiceLines, invoicePayments, invoiceRefunds, invoices } from '../database/schema'
 import type { InvoiceCreateInput, ManualPaymentInput } from '../../shared/schemas/invoices'
 import { businessProfile, businessProfileSchema, type BusinessProfile } from '../../shared/schemas/settings-business'
 import { INVOICE_POLICY_DEFAULTS, INVOICE_POLICY_KEY, invoicePolicySchema, type InvoicePolicy } from '../../shared/schemas/settings-invoices'

@@ -11,6 +11,7 @@ import {
   discardReasonOf, restockTransition, stockForecast, stockRosterValue, targetTiming, uniqueBagCode, useDiscards,
   type Bag, type CollectionAnswers, type Problem, type SampleRosterValue, type Sample, type SamplePolicy, type SampleState, type SampleUse, type StockForecast,
 } from '../../shared/utils/samples'
+import { isPhoneBagCode } from '../../shared/utils/bag-codes'
 import { SAMPLE_POLICY_KEY, samplePolicySchema } from '../../shared/schemas/settings-samples'
 import { businessProfileSchema, businessProfile } from '../../shared/schemas/settings-business'
 import type {
@@ -221,10 +222,15 @@ export async function createSample(user: AuthUser, client: ClientRow, input: Sam
   const check = await checkedCollection(input, policy)
   const quick = input.answers === undefined
   const compromising = quick ? [] : check.compromising.filter(p => EXPOSURE_RULES.has(p.rule))
+  if (input.bagCode && !isPhoneBagCode(input.bagCode, input.kind)) {
+    sampleRuleError([{ rule: 'bag-code-kind', message: `Bag code ${input.bagCode} is for a ${input.kind === 'target' ? 'control' : 'target'} sample; a ${input.kind} sample's code starts with ${input.kind === 'target' ? 'T' : 'C'}.` }], { bagCode: 'This code is for the other kind of sample.' })
+  }
   return db.transaction(async (tx) => {
     const taken = new Set((await tx.select({ c: samples.bagCode }).from(samples).where(eq(samples.clientId, client.id))).map(r => r.c))
+    // A code made on the phone is already on the bag: kept as it is, or refused if another bag of the household has it.
+    if (input.bagCode && taken.has(input.bagCode)) bagCodeTaken(input.bagCode)
     const [row] = await tx.insert(samples).values({
-      clientId: client.id, kind: input.kind, bagCode: uniqueBagCode(input.kind, taken), collectedAt: input.collectedAt,
+      clientId: client.id, kind: input.kind, bagCode: input.bagCode ?? uniqueBagCode(input.kind, taken), collectedAt: input.collectedAt,
       firstSymptomsAt: input.kind === 'target' ? input.firstSymptomsAt ?? null : null, collectorId: user.id, rolls: input.rolls,
       medicationBefore: input.kind === 'target' ? input.medicationBefore ?? null : null,
       answers: input.answers ? answersToJson(input.answers) : null, answersCompletedAt: quick ? null : new Date(),
@@ -233,7 +239,18 @@ export async function createSample(user: AuthUser, client: ClientRow, input: Sam
     await logAudit(tx, { actorId: user.id, action: quick ? 'sample.quick-saved' : 'sample.collected', entityType: 'sample', entityId: row!.id, clientId: client.id, data: { kind: row!.kind, bagCode: row!.bagCode, compromised: row!.compromised, rules: compromising.map(p => p.rule) } })
     await refreshSampleBank(tx, client.id, policy)
     return row!
+  }).catch((err: unknown) => {
+    // Two sends racing past the check meet the unique index: a 409 then too, never a 500.
+    const text = `${(err as Error)?.message ?? ''} ${String((err as { cause?: unknown })?.cause ?? '')}`
+    if (input.bagCode && /UNIQUE constraint failed: samples\.client_id, samples\.bag_code/.test(text)) bagCodeTaken(input.bagCode)
+    throw err
   })
+}
+
+/** A 409: the phone-made code is already on another bag of the household (data.rules names 'bag-code-taken'). */
+function bagCodeTaken(code: string): never {
+  const problems = [{ rule: 'bag-code-taken', message: `Another bag of this household already has the code ${code}. Give this bag a new code and write it on the bag instead.` }]
+  throw createError({ statusCode: 409, statusMessage: 'Conflict', message: problems[0]!.message, data: { rules: ['bag-code-taken'], problems, fieldErrors: { bagCode: problems[0]!.message } } })
 }
 
 export async function completeSampleAnswers(user: AuthUser, sample: SampleRow, input: SampleAnswersInput) {
@@ -357,6 +374,8 @@ export async function recordSampleUse(user: AuthUser, sample: SampleRow, input: 
 }
 
 export async function closeSampleUse(user: AuthUser, use: UseRow, input: UseCloseInput) {
+  // The same put-back sent again (its answer was lost on the way to a phone with a weak signal): already done.
+  if (use.backAt && use.backAt.getTime() === input.backAt.getTime()) return { use, warnings: [], discards: use.discarded }
   const db = useDb()
   const policy = await samplePolicy(db)
   return db.transaction(async (tx) => {

@@ -4,6 +4,7 @@
 import { z } from 'zod'
 import { yearInRange, YEAR_RANGE_MESSAGE } from './common'
 import { EXPOSURES, SAMPLE_KINDS } from '../utils/samples'
+import { isPhoneBagCode } from '../utils/bag-codes'
 import { TRAINING_STAGES } from '../utils/enums'
 
 const instant = (what: string) => z.string({ required_error: `Enter ${what}.`, invalid_type_error: `Enter ${what}.` })
@@ -43,6 +44,8 @@ export const sampleCreateSchema = z.object({
     .int('Enter the number of cotton rolls as a whole number.').min(1, 'A sample needs at least 1 cotton roll.').max(100, 'That is far too many rolls for one bag.'),
   answers: collectionAnswersSchema.optional(),
   notes: z.string().trim().max(1000, 'Use at most 1000 characters.').optional().nullable().transform(v => v || null),
+  /** The code made on the phone and already written on the bag (shared/utils/bag-codes.ts); left out, the server makes one. */
+  bagCode: z.string().trim().refine(v => isPhoneBagCode(v), 'The bag code must be one made by the Forescent app, like T-ABC2D.').optional(),
 })
 export type SampleCreateInput = z.infer<typeof sampleCreateSchema>
 

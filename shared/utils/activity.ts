@@ -19,6 +19,37 @@ function list(items: string[]): string {
   return `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`
 }
 
+// Actions whose words do not follow "<thing>.<verb>" (as they read in the timeline).
+const ACTION_PHRASES: Record<string, string> = {
+  'homework.video_uploaded': 'sent a homework video',
+  'homework.assigned': 'set homework',
+  'homework.reviewed': 'reviewed homework',
+  'homework.completed': 'marked homework done',
+  'homework-comment.added': 'commented on homework',
+  'training-session.logged': 'logged a training session',
+  'training-trial.deleted': 'removed a trial',
+  'suitability-assessment.recorded': 'recorded a suitability assessment',
+  'dog-status.recorded': "changed the dog's status",
+  'sample.used': 'took a sample out for training',
+  'sample.returned': 'put a sample back',
+  'sample.stored': 'stored a sample',
+  'sample.discarded': 'discarded a sample',
+  'sample.answers-recorded': 'recorded the collection answers',
+  'sample-outer-bag.moved': 'moved a bag of samples',
+  'diary-alert.reviewed': 'reviewed an alert in the diary',
+  'diary-window.set': 'set the diary window',
+  'diary-window.cleared': 'cleared the diary window',
+  'invoice.payment-recorded': 'recorded a payment',
+  'invoice.plan-created': 'planned the instalments',
+  'milestone.confirmed': 'signed off a milestone',
+  'milestone.criteria-set': "set a milestone's criteria",
+  'milestone.text-edited': "edited a milestone's wording",
+  'appointment.booked': 'booked a visit',
+  'appointment.changed': 'changed a visit',
+  'appointment.cancelled': 'cancelled a visit',
+  'message.sent': 'sent a message',
+}
+
 const str = (v: unknown) => (typeof v === 'string' ? v : '')
 
 /** "Maren Holt updated the phone and town", or a readable fallback for actions it does not know. */
@@ -42,11 +73,15 @@ export function describeActivity(e: ActivityEntry): string {
       return `${who} updated document${str(to.title) ? `: ${str(to.title)}` : ''}`
     }
     default: {
-      // "dog.photo.added" → "added dog photo"
-      const parts = e.action.split('.')
+      const phrase = ACTION_PHRASES[e.action]
+      const about = str(d.title) ? `: ${str(d.title)}` : str(d.name) ? `: ${str(d.name)}` : ''
+      if (phrase) return `${who} ${phrase}${about}`
+      // "dog.photo.added" → "added dog photo"; "homework.video_uploaded" → "video uploaded homework" never: the last
+      // part is the verb, and underscores and hyphens read as spaces.
+      const parts = e.action.replace(/_/g, '-').split('.')
       const verb = parts.length > 1 ? parts.pop()! : 'changed'
       const thing = parts.join(' ') || e.entityType
-      return `${who} ${verb.replace(/-/g, ' ')} ${thing.replace(/-/g, ' ')}${str(d.title) ? `: ${str(d.title)}` : str(d.name) ? `: ${str(d.name)}` : ''}`
+      return `${who} ${verb.replace(/-/g, ' ')} ${thing.replace(/-/g, ' ')}${about}`
     }
   }
 }

@@ -2,7 +2,8 @@
 //
 // Pure logic only: no database, no HTTP, no Nuxt. Calendar dates are 'YYYY-MM-DD' strings, compared and counted
 // as calendar days (never as instants), so the answers do not depend on the server's time zone.
-import { DOG_SEXES, DOG_SOURCES, DOG_STATUSES } from './enums'
+import { countOf, formatDay } from './format'
+import type { DOG_SEXES, DOG_SOURCES, DOG_STATUSES } from './enums'
 
 export type DogStatus = (typeof DOG_STATUSES)[number]
 export type DogSource = (typeof DOG_SOURCES)[number]
@@ -72,7 +73,6 @@ export function todayInTimeZone(timeZone: string, now: Date = new Date()): strin
   return `${p.year}-${p.month}-${p.day}`
 }
 
-const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
 
 /**
  * A dog's age for display: "5 days", "3 weeks", "8 months", "1 year", "2 years 3 months".
@@ -88,11 +88,11 @@ export function dogAge(dateOfBirth: string | null | undefined, today: string): s
   let months = (t[0] - b[0]) * 12 + (t[1] - b[1])
   const monthEnd = t[2] === daysInMonth(t[0], t[1])
   if (t[2] < b[2] && !monthEnd) months -= 1
-  if (months < 1) return days < 14 ? plural(days, 'day') : plural(Math.floor(days / 7), 'week')
+  if (months < 1) return days < 14 ? countOf(days, 'day') : countOf(Math.floor(days / 7), 'week')
   const years = Math.floor(months / 12)
   const rest = months % 12
-  if (years === 0) return plural(rest, 'month')
-  return rest === 0 ? plural(years, 'year') : `${plural(years, 'year')} ${plural(rest, 'month')}`
+  if (years === 0) return countOf(rest, 'month')
+  return rest === 0 ? countOf(years, 'year') : `${countOf(years, 'year')} ${countOf(rest, 'month')}`
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -343,9 +343,7 @@ export function pastDayProblem(day: string, today: string, dateOfBirth: string |
 
 /** '2026-03-31' → '31 Mar 2026' (a calendar day, shown the same in every time zone). */
 export function formatCalendarDay(day: string | null | undefined, locale = 'en-GB'): string {
-  const p = day ? parts(day) : null
-  if (!p) return '—'
-  return new Date(Date.UTC(p[0], p[1] - 1, p[2])).toLocaleDateString(locale, { timeZone: 'UTC', day: 'numeric', month: 'short', year: 'numeric' })
+  return day && parts(day) ? formatDay(day, 'medium', locale) : '—'
 }
 
 /** '999000000010001' → '999 000 000 010 001', easier to read against a scanner's display. */

@@ -21,8 +21,10 @@ export interface OutboxItem {
   seq: number
   attempts: number
   lastTriedAt?: string
-  /** The server refused it: kept with the reason until the person fixes or discards it. */
-  refused?: { status: number, message: string }
+  /** The server refused it: kept with the reason (and the rules it named) until the person fixes or discards it. */
+  refused?: { status: number, message: string, rules?: string[], fieldErrors?: Record<string, string> }
+  /** The page where the record can be seen and fixed ("Open" beside a refusal). */
+  href?: string
 }
 
 export const REF_PREFIX = '@ref:'
@@ -73,6 +75,21 @@ export function classifyAnswer(status: number | undefined, method: OutboxMethod,
   return 'refused'
 }
 
+/** The records that need `key` (directly or through another), which cannot go without it. */
+export function dependentsOf(items: Pick<OutboxItem, 'key' | 'url' | 'body'>[], key: string): string[] {
+  const out = new Set<string>()
+  let frontier = [key]
+  while (frontier.length) {
+    const next: string[] = []
+    for (const item of items) {
+      if (out.has(item.key) || item.key === key) continue
+      if (refsIn(item).some(k => frontier.includes(k))) { out.add(item.key); next.push(item.key) }
+    }
+    frontier = next
+  }
+  return [...out]
+}
+
 /** The records to try now, in the order they were tapped: this person's, not refused, not waiting on a refused one. */
 export function sendOrder(items: OutboxItem[], userId: string): OutboxItem[] {
   const mine = items.filter(i => i.userId === userId).sort((a, b) => a.seq - b.seq)
@@ -107,4 +124,58 @@ export function agoText(at: number, now: Date): string {
   const h = Math.round(m / 60)
   if (h < 48) return `${h} h ago`
   return `${Math.round(h / 24)} days ago`
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// The old trial queue (before the outbox): trials kept in localStorage under "trial-queue" by an earlier version of
+// the app. Moved onto the outbox once, on app start, so nothing a phone still holds from then is lost.
+
+export const LEGACY_TRIAL_QUEUE_KEY = 'trial-queue'
+
+export interface LegacyRecord { key: string, label: string, method: OutboxMethod, url: string, body?: unknown, tappedAt?: string }
+export interface LegacyMove {
+  records: LegacyRecord[]
+  /** Sessions that were open on the pad, by client: a key standing for the session, and its server id. */
+  open: Record<string, { key: string, sessionId: string, day: string, openedAt: string }>
+}
+
+const KEY_RE = /^[\w-]{16,100}$/
+const ID_RE = /^[\w-]{1,100}$/
+const intOrNull = (v: unknown) => (v === null ? null : Number.isInteger(v) ? v as number : undefined)
+
+/**
+ * The records to add to the outbox for what the old queue held (its JSON as kept in localStorage): each trial sent
+ * to its session with its own entry key (the server stores it once, whatever was sent before), an undone trial sent
+ * and then removed. Anything unreadable is left out; nothing else is guessed.
+ */
+export function moveLegacyTrialQueue(raw: string | null | undefined): LegacyMove {
+  const out: LegacyMove = { records: [], open: {} }
+  if (!raw) return out
+  let state: { queue?: unknown, open?: unknown }
+  try { state = JSON.parse(raw) }
+  catch { return out }
+  const queue = Array.isArray(state?.queue) ? state.queue : []
+  for (const q of queue as Record<string, unknown>[]) {
+    const entryKey = q?.entryKey
+    const sessionId = q?.sessionId
+    const stations = q?.stations
+    const targetStation = intOrNull(q?.targetStation)
+    const indicatedStation = intOrNull(q?.indicatedStation)
+    if (typeof entryKey !== 'string' || !KEY_RE.test(entryKey) || typeof sessionId !== 'string' || !ID_RE.test(sessionId)) continue
+    if (!Number.isInteger(stations) || targetStation === undefined || indicatedStation === undefined) continue
+    const tappedAt = typeof q.queuedAt === 'string' && !Number.isNaN(Date.parse(q.queuedAt)) ? new Date(q.queuedAt).toISOString() : undefined
+    out.records.push({
+      key: entryKey, label: 'Trial kept by an earlier version of the app', method: 'POST', url: `/api/training-sessions/${sessionId}/trials`,
+      body: { stations, targetStation, indicatedStation, entryKey }, ...(tappedAt ? { tappedAt } : {}),
+    })
+    if (q.undo === true) {
+      out.records.push({ key: `${entryKey}-undo`.slice(0, 100), label: 'Undo of a trial kept by an earlier version of the app', method: 'DELETE', url: `/api/training-trials/${refTo(entryKey)}`, ...(tappedAt ? { tappedAt } : {}) })
+    }
+  }
+  const open = state?.open && typeof state.open === 'object' ? state.open as Record<string, Record<string, unknown>> : {}
+  for (const [clientId, o] of Object.entries(open)) {
+    if (!ID_RE.test(clientId) || typeof o?.sessionId !== 'string' || !ID_RE.test(o.sessionId) || typeof o.day !== 'string' || typeof o.openedAt !== 'string') continue
+    out.open[clientId] = { key: `legacy-session-${o.sessionId}`.slice(0, 100), sessionId: o.sessionId, day: o.day, openedAt: o.openedAt }
+  }
+  return out
 }

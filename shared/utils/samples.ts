@@ -9,6 +9,7 @@
 // Time: all durations are measured in elapsed milliseconds between instants (a "day" is 24 hours, a "minute" 60
 // seconds), so results never depend on the server's time zone or on daylight-saving changes.
 
+import { countOf } from './format'
 export const SAMPLE_KINDS = ['target', 'control'] as const
 export type SampleKind = (typeof SAMPLE_KINDS)[number]
 
@@ -172,12 +173,8 @@ function isValidDate(d: unknown): d is Date {
   return d instanceof Date && !Number.isNaN(d.getTime())
 }
 
-function plural(n: number, one: string, many = `${one}s`): string {
-  return `${n} ${n === 1 ? one : many}`
-}
-
 function minutesText(ms: number): string {
-  return plural(Math.floor(ms / MINUTE_MS), 'minute')
+  return countOf(Math.floor(ms / MINUTE_MS), 'minute')
 }
 
 /**
@@ -211,7 +208,7 @@ export function checkCollection(
   } else if (answers.rolls > policy.maxRollsPerBag) {
     invalid.push({
       rule: 'rolls-over-limit',
-      message: `Put at most ${plural(policy.maxRollsPerBag, 'cotton roll')} in one bag; you entered ${answers.rolls}. Use another bag for the rest.`,
+      message: `Put at most ${countOf(policy.maxRollsPerBag, 'cotton roll')} in one bag; you entered ${answers.rolls}. Use another bag for the rest.`,
     })
   }
 
@@ -250,7 +247,7 @@ export function checkCollection(
         : `There is no answer for when you last finished ${spec.what}`
       compromising.push({
         rule: spec.rule,
-        message: `${lead}, so the sample can't be trusted. Leave at least ${plural(limit, 'minute')} after ${spec.what} before collecting.`,
+        message: `${lead}, so the sample can't be trusted. Leave at least ${countOf(limit, 'minute')} after ${spec.what} before collecting.`,
       })
       continue
     }
@@ -269,7 +266,7 @@ export function checkCollection(
     } else if (gap < limit * MINUTE_MS) {
       compromising.push({
         rule: spec.rule,
-        message: `Only ${minutesText(gap)} passed between ${spec.what} and collecting; at least ${plural(limit, 'minute')} are needed.`,
+        message: `Only ${minutesText(gap)} passed between ${spec.what} and collecting; at least ${countOf(limit, 'minute')} are needed.`,
       })
     }
   }
@@ -290,6 +287,63 @@ export function checkCollection(
     broken: [...invalid, ...compromising],
   }
 }
+
+/** One exposure still too recent to collect a control sample now. */
+export interface WaitReason {
+  rule: string
+  /** "eating", "drinking water"… */
+  what: string
+  /** When collecting is clear of it. */
+  clearAt: Date
+}
+
+export interface CollectionWait {
+  /** Whole minutes still to wait (rounded up); 0 when collecting now keeps every limit. */
+  minutes: number
+  /** When collecting keeps every limit (now when there is nothing to wait for). */
+  readyAt: Date
+  /** The exposures still too recent, the one clear last first. */
+  reasons: WaitReason[]
+}
+
+/**
+ * How long to wait before collecting, from the checklist answered first (before any roll goes in the mouth).
+ *
+ * Control samples: each exposure is clear `limit` minutes after it last happened (policy.fastingMinutes,
+ * policy.waterFreeMinutes, the same limits checkCollection applies); an exposure the person is not sure about
+ * counts as just now (`answeredAt`), so waiting its whole limit makes it certain. Eaten 20 minutes ago with a
+ * 45-minute limit: wait 25 more minutes.
+ * Target samples never wait: the episode will not, and collecting early matters most (a late or medicated target is
+ * flagged as before, by targetTiming).
+ */
+export function collectionWait(
+  input: { kind: SampleKind, answeredAt: Date, exposures: Partial<Record<Exposure, Date | null>>, unknown?: readonly Exposure[] },
+  policy: SamplePolicy = DEFAULT_SAMPLE_POLICY,
+  now: Date = input.answeredAt,
+): CollectionWait {
+  const t = now.getTime()
+  if (input.kind === 'target') return { minutes: 0, readyAt: new Date(t), reasons: [] }
+  const unknown = new Set(input.unknown ?? [])
+  const reasons: WaitReason[] = []
+  for (const key of EXPOSURES) {
+    const spec = EXPOSURE_RULES[key]
+    const value = input.exposures[key]
+    const last = unknown.has(key) ? input.answeredAt : isValidDate(value) ? value : null
+    if (!last) continue
+    const clearAt = last.getTime() + spec.limit(policy) * MINUTE_MS
+    if (clearAt > t) reasons.push({ rule: spec.rule, what: spec.what, clearAt: new Date(clearAt) })
+  }
+  reasons.sort((a, b) => b.clearAt.getTime() - a.clearAt.getTime())
+  const readyAt = reasons[0]?.clearAt.getTime() ?? t
+  return { minutes: Math.ceil((readyAt - t) / MINUTE_MS), readyAt: new Date(readyAt), reasons }
+}
+
+/** "Wait 25 more minutes" (null when there is nothing to wait for). */
+export function waitText(wait: CollectionWait): string | null {
+  if (wait.minutes <= 0) return null
+  return `Wait ${countOf(wait.minutes, 'more minute', 'more minutes')}`
+}
+
 
 // ---------------------------------------------------------------------------------------------------------------
 // Samples and uses
@@ -349,7 +403,7 @@ export function useDiscards(use: Pick<SampleUse, 'discarded' | 'stage' | 'overLi
 /** Why a use threw its sample away, in words for the sample's record (null when it did not). */
 export function discardReasonOf(use: Pick<SampleUse, 'discarded' | 'stage' | 'overLimit'>, policy: SamplePolicy): string | null {
   if (use.discarded) return 'Thrown away after use.'
-  if (policy.overLimitIsLastUse && use.overLimit === true) return `Out of the freezer longer than ${plural(policy.maxMinutesOutPerUse, 'minute')}: that use was its last.`
+  if (policy.overLimitIsLastUse && use.overLimit === true) return `Out of the freezer longer than ${countOf(policy.maxMinutesOutPerUse, 'minute')}: that use was its last.`
   if (policy.imprintingSingleUse && isImprintingStage(use.stage)) return 'Single use in imprinting.'
   return null
 }
@@ -472,8 +526,8 @@ function closedUseProblems(
     warnings.push({
       rule: 'over-time-limit',
       message: policy.overLimitIsLastUse
-        ? `The sample was out for ${minutesText(out)}, longer than ${plural(policy.maxMinutesOutPerUse, 'minute')}: it has thawed, so this was its last use. Throw it away.`
-        : `The sample was out for ${minutesText(out)}; keep it out no longer than ${plural(policy.maxMinutesOutPerUse, 'minute')}.`,
+        ? `The sample was out for ${minutesText(out)}, longer than ${countOf(policy.maxMinutesOutPerUse, 'minute')}: it has thawed, so this was its last use. Throw it away.`
+        : `The sample was out for ${minutesText(out)}; keep it out no longer than ${countOf(policy.maxMinutesOutPerUse, 'minute')}.`,
     })
   }
   return { invalid, warnings, overLimit }
@@ -523,7 +577,7 @@ export function checkUse(input: {
     if (input.maintenanceSession !== true) {
       refused.push({
         rule: 'maintenance-only',
-        message: `This sample is more than ${plural(policy.renewAfterDays, 'day')} old: use it only in a maintenance session, and collect fresh samples.`,
+        message: `This sample is more than ${countOf(policy.renewAfterDays, 'day')} old: use it only in a maintenance session, and collect fresh samples.`,
       })
     }
   } else if (state.status === 'used-up') {
@@ -531,7 +585,7 @@ export function checkUse(input: {
   } else if (state.status === 'expired') {
     refused.push({
       rule: 'expired',
-      message: `${STATUS_REFUSALS.expired}: samples last ${plural(policy.expireAfterDays, 'day')}.`,
+      message: `${STATUS_REFUSALS.expired}: samples last ${countOf(policy.expireAfterDays, 'day')}.`,
     })
   } else if (state.status !== 'usable') {
     refused.push({ rule: state.status, message: STATUS_REFUSALS[state.status] })
@@ -622,7 +676,7 @@ export function targetTiming(input: TargetTimingInput, policy: SamplePolicy = DE
   if (late) {
     reasons.push({
       rule: 'target-late',
-      message: `Collected ${minutesText(gap!)} after the first symptoms, later than the ${plural(policy.targetMaxMinutesAfterSymptoms, 'minute')} the protocol allows.`,
+      message: `Collected ${minutesText(gap!)} after the first symptoms, later than the ${countOf(policy.targetMaxMinutesAfterSymptoms, 'minute')} the protocol allows.`,
     })
   }
   if (medicated) reasons.push({ rule: 'target-after-medication', message: 'Collected after medication for the episode was taken.' })
@@ -732,7 +786,7 @@ export function checkPacking(
   } else if (input.outerBagCount > policy.maxBagsPerOuterBag) {
     problems.push({
       rule: 'outer-bag-full',
-      message: `Put at most ${plural(policy.maxBagsPerOuterBag, 'small bag')} in one outer bag; this would make ${input.outerBagCount}. Start a new outer bag.`,
+      message: `Put at most ${countOf(policy.maxBagsPerOuterBag, 'small bag')} in one outer bag; this would make ${input.outerBagCount}. Start a new outer bag.`,
     })
   }
   const container = input.containerKind
@@ -870,7 +924,7 @@ export function stockForecast(
 
 export const BAG_CODE_ALPHABET = 'ABCDEFGHJKMNPQRSTUVWXYZ23456789'
 export const BAG_CODE_LENGTH = 4
-const BAG_CODE_PREFIX: Record<SampleKind, string> = { target: 'T', control: 'C' }
+export const BAG_CODE_PREFIX: Record<SampleKind, string> = { target: 'T', control: 'C' }
 
 /** A source of random numbers in [0, 1), like Math.random. */
 export type RandomSource = () => number
@@ -919,9 +973,11 @@ export function uniqueBagCode(
   throw new RangeError(`No free bag code found in ${maxTries} tries.`)
 }
 
-const BAG_CODE_RE = new RegExp(`^([TC])-[${BAG_CODE_ALPHABET}]{${BAG_CODE_LENGTH}}$`)
+// Codes made on the server have BAG_CODE_LENGTH characters; codes made on a phone one more (shared/utils/bag-codes.ts),
+// so the two can never be the same code.
+const BAG_CODE_RE = new RegExp(`^([TC])-[${BAG_CODE_ALPHABET}]{${BAG_CODE_LENGTH},${BAG_CODE_LENGTH + 1}}$`)
 
-/** True for a well-formed bag code (upper case), optionally of the given kind. */
+/** True for a well-formed bag code (upper case, made on the server or on a phone), optionally of the given kind. */
 export function isBagCode(value: string, kind?: SampleKind): boolean {
   const m = BAG_CODE_RE.exec(value)
   if (!m) return false

@@ -29,7 +29,6 @@ export const MAX_SERIES_DAYS = 731
 export const MAX_SERIES_EVERY_WEEKS = 8
 
 const MINUTE = 60_000
-const DAY = 24 * 60 * MINUTE
 
 export interface WallTime { date: string, time: string }
 

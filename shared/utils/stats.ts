@@ -13,6 +13,8 @@ export interface ProportionInterval {
 // Standard normal quantile
 // ---------------------------------------------------------------------------------------------------------------
 
+/* eslint-disable no-loss-of-precision -- the coefficients below are written digit for digit as published, so they
+   can be checked against the source; the parser rounds each to the nearest double, which is all the routine needs. */
 // Coefficients of Wichura, M. J. (1988), "Algorithm AS 241: The Percentage Points of the Normal Distribution",
 // Applied Statistics 37(3):477-484, routine PPND16 (about 16 significant digits). Constant term first.
 const AS241_A = [
@@ -39,6 +41,7 @@ const AS241_F = [
   1, 0.59983220655588793769, 0.13692988092273580531, 0.0148753612908506148525, 7.868691311456132591e-4,
   1.8463183175100546818e-5, 1.4215117583164458887e-7, 2.04426310338993978564e-15,
 ]
+/* eslint-enable no-loss-of-precision */
 
 /** Evaluates c[0] + c[1] x + ... + c[n] x^n by Horner's rule. */
 function horner(coefficients: readonly number[], x: number): number {

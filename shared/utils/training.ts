@@ -1,5 +1,6 @@
 // Programme milestones and their readiness criteria: the default programme, and the pure check of whether a dog's
 // recent, measured trials meet a milestone's criteria (with what is still needed). No database, no HTTP.
+import { countOf } from './format'
 import { scoreTrials, type ProportionInterval, type Trial, type TrialScore } from './stats'
 
 export const SESSION_RUNNERS = ['trainer', 'handler'] as const
@@ -108,7 +109,6 @@ export interface Readiness {
 
 const DAY_MS = 86_400_000
 const pct = (x: number) => `${Math.round(x * 1000) / 10}%`
-const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`
 
 /** The first day (YYYY-MM-DD) of a rolling window of `days` days ending on `today` (inclusive). */
 export function windowStart(today: string, days: number): string {
@@ -151,24 +151,24 @@ export function evaluateReadiness(criteria: ReadinessCriteria, sessions: readonl
 
   const results: CriterionResult[] = []
   results.push({
-    key: 'trials', label: `At least ${plural(criteria.minTrials, 'trial')}`, met: n >= criteria.minTrials,
-    actual: plural(n, 'trial'), stillNeeded: n >= criteria.minTrials ? null : `${plural(criteria.minTrials - n, 'more trial')}`,
+    key: 'trials', label: `At least ${countOf(criteria.minTrials, 'trial')}`, met: n >= criteria.minTrials,
+    actual: countOf(n, 'trial'), stillNeeded: n >= criteria.minTrials ? null : `${countOf(criteria.minTrials - n, 'more trial')}`,
   })
   results.push({
-    key: 'sessions', label: `Over at least ${plural(criteria.minSessions, 'session')}`, met: withTrials.length >= criteria.minSessions,
-    actual: plural(withTrials.length, 'session'), stillNeeded: withTrials.length >= criteria.minSessions ? null : `${plural(criteria.minSessions - withTrials.length, 'more session')}`,
+    key: 'sessions', label: `Over at least ${countOf(criteria.minSessions, 'session')}`, met: withTrials.length >= criteria.minSessions,
+    actual: countOf(withTrials.length, 'session'), stillNeeded: withTrials.length >= criteria.minSessions ? null : `${countOf(criteria.minSessions - withTrials.length, 'more session')}`,
   })
   results.push({
-    key: 'days', label: `On at least ${plural(criteria.minDays, 'different day')}`, met: days >= criteria.minDays,
-    actual: plural(days, 'day'), stillNeeded: days >= criteria.minDays ? null : `Sessions on ${plural(criteria.minDays - days, 'more day')}`,
+    key: 'days', label: `On at least ${countOf(criteria.minDays, 'different day')}`, met: days >= criteria.minDays,
+    actual: countOf(days, 'day'), stillNeeded: days >= criteria.minDays ? null : `Sessions on ${countOf(criteria.minDays - days, 'more day')}`,
   })
   // Blind trials needed so that blind / max(n, minTrials) reaches the share.
   const blindTarget = Math.ceil((criteria.minBlindPercent / 100) * Math.max(n, criteria.minTrials) - 1e-9)
   const blindMet = n > 0 ? blindTrials >= blindTarget : criteria.minBlindPercent <= 0
   results.push({
     key: 'blind', label: `At least ${criteria.minBlindPercent}% of them blind`, met: blindMet,
-    actual: n ? `${plural(blindTrials, 'blind trial')} of ${n} (${pct(blindTrials / n)})` : 'No trials yet',
-    stillNeeded: blindMet ? null : `${plural(Math.max(1, blindTarget - blindTrials), 'more blind trial')}`,
+    actual: n ? `${countOf(blindTrials, 'blind trial')} of ${n} (${pct(blindTrials / n)})` : 'No trials yet',
+    stillNeeded: blindMet ? null : `${countOf(Math.max(1, blindTarget - blindTrials), 'more blind trial')}`,
   })
   results.push(boundCriterion('sensitivity', score.sensitivity, criteria.minSensitivityLowerPercent, `Finds the target: lower bound at least ${criteria.minSensitivityLowerPercent}%`, 'trials with a target'))
   results.push(boundCriterion('specificity', score.specificity, criteria.minSpecificityLowerPercent, `Stays quiet on blanks: lower bound at least ${criteria.minSpecificityLowerPercent}%`, 'blank trials'))

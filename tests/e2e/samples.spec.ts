@@ -1,4 +1,4 @@
-import { expect, test } from '@playwright/test'
+import { expect, test, type Page } from '@playwright/test'
 import { seedId } from '../../scripts/lib/seed-data'
 import { ADMIN, HANDLER_A, TRAINER_A } from '../support/people'
 import { resetDatabase } from '../support/stack'
@@ -38,7 +38,8 @@ test('a handler collects a control on a phone, step by step, and the trainer see
   await page.getByRole('button', { name: 'Save the sample' }).click()
 
   const code = page.getByTestId('bag-code')
-  await expect(code).toHaveText(/^C-[A-HJ-NP-Z2-9]{4}$/)
+  // Made on the phone: one character longer than a server-made code (shared/utils/bag-codes.ts).
+  await expect(code).toHaveText(/^C-[A-HJ-NP-Z2-9]{5}$/)
   const bagCode = (await code.textContent())!.trim()
   await expect(page.getByText('Use a pencil')).toBeVisible()
   await shot(page, 'samples-collect-code-phone')
@@ -65,6 +66,62 @@ test('a handler collects a control on a phone, step by step, and the trainer see
   await expect(desk.getByTestId('sample-attention')).toContainText('saved quickly') // the demo's quick-saved target
   await shot(desk, 'samples-trainer-bank-desktop')
   await desk.close()
+})
+
+/** The checklist as asked before collecting: a meal `minutes` ago, nothing else, hands washed with unscented soap. */
+async function answerChecklistAfterAMeal(page: Page, minutes: number) {
+  await page.getByTestId('question-lastAteAt').getByRole('button', { name: /^Yes, within/ }).click()
+  await page.getByLabel('How many minutes ago?').fill(String(minutes))
+  await page.getByTestId('next').click()
+  for (let i = 0; i < 6; i++) {
+    await page.getByRole('button', { name: /^No, not in the last/ }).click()
+    await page.getByTestId('next').click()
+  }
+  await page.getByRole('button', { name: 'Yes, with unscented soap' }).click()
+  await page.getByTestId('next').click()
+}
+
+test('the checklist comes first: a control after a meal 20 minutes ago waits 25 more minutes, with a reminder, then is collected clean', async ({ page, context }) => {
+  await context.grantPermissions(['notifications'])
+  await page.clock.install()
+  await page.setViewportSize(PHONE)
+  await signInAs(page, HANDLER_A)
+  await page.goto(`/handler/samples/${CLIENT_A}/collect`)
+  await page.getByRole('button', { name: /Control: I am well/ }).click()
+  // Asked before any roll goes in the mouth: "in the last 45 minutes", "how many minutes ago".
+  await expect(page.getByTestId('question-lastAteAt')).toContainText('In the last 45 minutes.')
+  await answerChecklistAfterAMeal(page, 20)
+  // The fasting limit is 45 minutes (common practice): 25 more to go, and no way on to collecting until then.
+  await expect(page.getByTestId('wait-text')).toHaveText('Wait 25 more minutes')
+  await expect(page.getByTestId('collect-wait')).toContainText('eating: clear at')
+  await expect(page.getByTestId('next')).toBeDisabled()
+  await page.getByTestId('remind-me').click()
+  await expect(page.getByTestId('reminder-set')).toContainText('The phone will buzz')
+  await shot(page, 'samples-collect-wait-phone')
+  await page.clock.fastForward('10:00')
+  await expect(page.getByTestId('wait-text')).toHaveText('Wait 15 more minutes')
+  await page.clock.fastForward('15:01')
+  await expect(page.getByRole('heading', { name: 'Time to collect' })).toBeVisible()
+  await expect(page.getByTestId('next')).toBeEnabled()
+  await page.getByTestId('next').click()
+  await expect(page.getByRole('heading', { name: 'Collect the sample' })).toBeVisible()
+  // (The page's clock now runs 25 minutes ahead of the server's, so the sample is not saved from this page.)
+})
+
+test('a target is collected at once after the checklist, even after a meal: the flag is recorded as before', async ({ page }) => {
+  await page.setViewportSize(PHONE)
+  await signInAs(page, HANDLER_A)
+  await page.goto(`/handler/samples/${CLIENT_A}/collect`)
+  await page.getByRole('button', { name: /Target: an episode is starting/ }).click()
+  await page.getByRole('button', { name: 'Just now' }).click()
+  await page.getByTestId('next').click()
+  await page.getByRole('button', { name: 'No medication yet' }).click()
+  await page.getByTestId('next').click()
+  await answerChecklistAfterAMeal(page, 20)
+  await expect(page.getByRole('heading', { name: 'Collect the sample' })).toBeVisible()
+  await page.getByRole('button', { name: 'Save the sample' }).click()
+  await expect(page.getByTestId('bag-code')).toHaveText(/^T-/)
+  await expect(page.getByTestId('compromised-note')).toContainText('Only 20 minutes passed between eating and collecting')
 })
 
 test('during an episode the handler saves a target quickly, answers the checklist later, and takes it out for training', async ({ page }) => {

@@ -1,7 +1,7 @@
 import { createClient as libsql } from '@libsql/client'
 import { beforeEach, describe, expect, inject, it } from 'vitest'
 import { seedId } from '../../scripts/lib/seed-data'
-import { inbox, signIn, waitForMail, type Agent } from '../support/http'
+import { signIn, waitForMail, type Agent } from '../support/http'
 import { CLIENT_A, HANDLER_A, TRAINER_A, TRAINER_B } from '../support/people'
 import { resetDatabase } from '../support/stack'
 

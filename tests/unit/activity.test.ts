@@ -21,4 +21,11 @@ describe('describeActivity', () => {
     expect(describeActivity({ ...base, entityType: 'dog', action: 'dog.photo.added', data: { name: 'Juniper' } })).toBe('Maren Holt added dog photo: Juniper')
     expect(describeActivity({ ...base, entityType: 'document', action: 'document.updated', data: { from: { title: 'Scan 1' }, to: { title: 'Vaccination card' } } })).toBe('Maren Holt updated document: Vaccination card')
   })
+  it('reads every action key as a sentence, never as a raw key', () => {
+    expect(describeActivity({ ...base, entityType: 'homework', action: 'homework.video_uploaded', data: { title: 'Two controls' } })).toBe('Maren Holt sent a homework video: Two controls')
+    expect(describeActivity({ ...base, entityType: 'thing', action: 'thing.made_ready', data: null })).toBe('Maren Holt made ready thing')
+    for (const action of ['sample.used', 'training-session.logged', 'invoice.payment-recorded', 'x.some_new_event']) {
+      expect(describeActivity({ ...base, action, data: null })).not.toMatch(/[_.]/)
+    }
+  })
 })

@@ -657,10 +657,12 @@ describe('bag codes', () => {
   })
 
   it('isBagCode rejects look-alikes and malformed codes', () => {
-    for (const bad of ['T-O2AB', 'T-12AB', 'C-ILAB', 'X-ABCD', 'T-ABC', 'T-ABCDE', 't-abcd', 'TABCD', ' T-ABCD']) {
+    for (const bad of ['T-O2AB', 'T-12AB', 'C-ILAB', 'X-ABCD', 'T-ABC', 'T-ABCDEF', 't-abcd', 'TABCD', ' T-ABCD']) {
       expect(isBagCode(bad)).toBe(false)
     }
     expect(isBagCode('T-ABCD')).toBe(true)
+    // One character more: a code made on a phone (shared/utils/bag-codes.ts).
+    expect(isBagCode('T-ABCDE', 'target')).toBe(true)
   })
 
   it('normalises a typed-back code and tells its kind', () => {

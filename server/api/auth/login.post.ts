@@ -1,4 +1,3 @@
-import { eq } from 'drizzle-orm'
 import { loginSchema } from '../../../shared/schemas/auth'
 
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,5 @@
 // Dog profiles: the status history, health records and suitability assessments of each dog (the dogs table is in core).
-import { index, integer, sqliteTable, text } from 'drizzle-orm/sqlite-core'
+import { index, sqliteTable, text } from 'drizzle-orm/sqlite-core'
 import { DOG_STATUSES } from '../../../shared/utils/enums'
 import { ASSESSMENT_OUTCOMES, HEALTH_RECORD_KINDS } from '../../../shared/utils/dogs'
 import { dogs, id, timestamps, users } from './core'

@@ -35,6 +35,8 @@ export const rows: Row[] = [
   },
   { route: 'GET /api/homework-assignments/[id]', path: `/api/homework-assignments/${ASSIGNMENT}`, expect: { ...clientA(200), handlerA: { status: 200, check: r => expect(r.body.canUpload).toBe(true) } } },
   { route: 'PATCH /api/homework-assignments/[id]', path: `/api/homework-assignments/${ASSIGNMENT}`, mutates: true, body: () => ({ dueDay: inDays(8) }), expect: clientA(200, 403) },
+  // A note about one practice, often sent late from a phone that had no signal.
+  { route: 'POST /api/homework-assignments/[id]/notes', path: `/api/homework-assignments/${ASSIGNMENT}/notes`, mutates: true, body: { body: 'Two good alerts in the garden, one miss by the shed.' }, expect: clientA(201) },
   { route: 'POST /api/homework-assignments/[id]/cancel', path: `/api/homework-assignments/${ASSIGNMENT}/cancel`, mutates: true, body: {}, expect: clientA(200, 403) },
   {
     route: 'GET /api/homework-videos', path: '/api/homework-videos',

@@ -1,6 +1,6 @@
 import { seedId } from '../../../scripts/lib/seed-data'
 import { CLIENT_A } from '../../support/people'
-import { clientA, expect, type Ctx, type Row } from '../../support/authz'
+import { clientA, expect, signedIn, type Ctx, type Row } from '../../support/authz'
 import type { Agent } from '../../support/http'
 
 // Client A's demo bank (scripts/lib/seed-samples.ts): sample 7 is a fresh, unused target; sample 8 a quick save
@@ -37,6 +37,13 @@ export const rows: Row[] = [
     route: 'POST /api/clients/[id]/samples', path: `/api/clients/${CLIENT_A}/samples`, mutates: true,
     body: () => ({ kind: 'control', collectedAt: minutesAgo(1), rolls: 4, answers: clean }), expect: clientA(201),
   },
+  // A quick save made on a phone with no signal carries the code already written on the bag.
+  {
+    route: 'POST /api/clients/[id]/samples', path: `/api/clients/${CLIENT_A}/samples`, mutates: true,
+    body: () => ({ kind: 'target', collectedAt: minutesAgo(2), firstSymptomsAt: minutesAgo(10), rolls: 2, bagCode: 'T-QRS2D' }), expect: clientA(201),
+  },
+  // Anyone signed in may reserve a prefix for the phone they collect on (shared/utils/bag-codes.ts).
+  { route: 'POST /api/bag-code-prefixes', path: '/api/bag-code-prefixes', mutates: true, body: {}, expect: signedIn(201) },
   { route: 'POST /api/clients/[id]/sample-containers', path: `/api/clients/${CLIENT_A}/sample-containers`, mutates: true, body: { kind: 'target', label: 'Spare tub' }, expect: clientA(201) },
   { route: 'GET /api/samples/[id]', path: `/api/samples/${FRESH_TARGET}`, expect: clientA(200) },
   { route: 'PUT /api/samples/[id]/answers', path: `/api/samples/${QUICK_TARGET}/answers`, mutates: true, body: { answers: clean }, expect: clientA(200) },

@@ -1,3 +1,11 @@
+CREATE TABLE `business_logos` (
+	`id` text PRIMARY KEY NOT NULL,
+	`mime` text NOT NULL,
+	`bytes` blob NOT NULL,
+	`created_at` integer DEFAULT (cast(unixepoch('subsec') * 1000 as integer)) NOT NULL,
+	`updated_at` integer DEFAULT (cast(unixepoch('subsec') * 1000 as integer)) NOT NULL
+);
+--> statement-breakpoint
 CREATE TABLE `invoice_refunds` (
 	`id` text PRIMARY KEY NOT NULL,
 	`invoice_id` text NOT NULL,
@@ -31,5 +39,15 @@ CREATE TABLE `payment_problems` (
 );
 --> statement-breakpoint
 CREATE UNIQUE INDEX `payment_problems_event_uq` ON `payment_problems` (`event_id`);--> statement-breakpoint
+ALTER TABLE `clients` ADD `billing_name` text;--> statement-breakpoint
+ALTER TABLE `clients` ADD `billing_address_line` text;--> statement-breakpoint
+ALTER TABLE `clients` ADD `billing_town` text;--> statement-breakpoint
+ALTER TABLE `clients` ADD `billing_postcode` text;--> statement-breakpoint
+ALTER TABLE `clients` ADD `billing_country` text;--> statement-breakpoint
+ALTER TABLE `clients` ADD `programme_template_id` text;--> statement-breakpoint
+ALTER TABLE `invoice_payments` ADD `receipt_number` text;--> statement-breakpoint
 ALTER TABLE `invoices` ADD `checkout_session_id` text;--> statement-breakpoint
-ALTER TABLE `invoices` ADD `refunded_minor` integer DEFAULT 0 NOT NULL;
+ALTER TABLE `invoices` ADD `checkout_nonce` text;--> statement-breakpoint
+ALTER TABLE `invoices` ADD `refunded_minor` integer DEFAULT 0 NOT NULL;--> statement-breakpoint
+ALTER TABLE `invoices` ADD `frozen` text;--> statement-breakpoint
+ALTER TABLE `programme_templates` ADD `archived_at` integer;
