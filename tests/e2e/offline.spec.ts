@@ -295,7 +295,7 @@ test('a sample out of the freezer for 5 minutes rings: a notification through th
   await page.clock.fastForward('05:01')
   await expect(page.getByTestId('out-alarm')).toContainText('5 minutes out: put it back in the freezer now.')
   // The notification is shown through the service worker a moment after the screen's alarm.
-  await expect.poll(() => page.evaluate(async () => (await (await navigator.serviceWorker.ready).getNotifications()).map(n => n.title)))
+  await expect.poll(() => page.evaluate(async () => (await (await navigator.serviceWorker.ready).getNotifications()).map(n => n.title)), { timeout: 20_000 })
     .toEqual([expect.stringMatching(/^Sample .+: 5 minutes out$/)])
   await shot(page, 'sample-out-alarm-phone')
   // (The page's clock now runs 5 minutes ahead of the server's, so the return is not recorded from this page.)

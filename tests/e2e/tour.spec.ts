@@ -65,7 +65,7 @@ const TOUR: { who: string, email: string, pages: { path: string, heading: RegExp
 for (const viewport of [{ name: 'phone', size: PHONE }, { name: 'desktop', size: DESKTOP }]) {
   for (const role of TOUR) {
     test(`${role.who} pages render on a ${viewport.name}`, async ({ page }) => {
-      test.setTimeout(120_000) // a dozen pages per role, on a shared 2-core machine
+      test.setTimeout(360_000) // two dozen pages per role, each scanned by axe, on a shared 2-core machine
       const problems: string[] = []
       let current = '(sign-in)'
       page.on('pageerror', e => problems.push(`${current}: ${e.message}`))
